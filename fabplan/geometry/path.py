@@ -1,0 +1,353 @@
+"""Bend paths: one piece of stock as straight runs and bends.
+
+A `BendPath` runs from the stock's end A to its end B. Each piece is a
+`Straight` (a length) or a `Bend` (centreline radius, angle, rotation of the
+bend plane about the stock's axis before the bend, and an optional pitch so
+that a helix is one bend of several turns). The path starts at `origin`
+heading along `heading`, with the first bend turning towards `normal`.
+
+The path computes its centreline, its developed length on the neutral axis
+(K-factor), where each bend starts and ends along the stock, and its 3D
+geometry as lines and arcs for drawings and the electrical model. A feed gap,
+when the path has one, lies between end B and end A: the developed length
+excludes it.
+
+Units: millimetres and degrees at the interface; radians inside.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from typing import Union
+
+import numpy as np
+
+__all__ = ["Straight", "Bend", "Piece", "BendPath", "Line3", "Arc3", "Primitive", "BendSpan",
+           "neutral_radius"]
+
+Vec = tuple[float, float, float]
+
+
+@dataclass(frozen=True)
+class Straight:
+    """A straight run of `length_mm` along the centreline."""
+
+    length_mm: float
+
+
+@dataclass(frozen=True)
+class Bend:
+    """A bend of `angle_deg` about a centreline radius `radius_mm`.
+
+    `rotation_deg` turns the bend plane about the stock axis, relative to the
+    previous bend's plane, before bending (0: same plane, same side; 180: same
+    plane, other side). `pitch_mm` is the axial advance per full turn (a helix).
+    """
+
+    radius_mm: float
+    angle_deg: float
+    rotation_deg: float = 0.0
+    pitch_mm: float = 0.0
+
+
+Piece = Union[Straight, Bend]
+
+
+def neutral_radius(centreline_radius_mm: float, depth_mm: float, k_factor: float) -> float:
+    """Radius of the neutral axis: inside radius + K x depth (mm)."""
+    return centreline_radius_mm - depth_mm / 2 + k_factor * depth_mm
+
+
+@dataclass(frozen=True)
+class Line3:
+    """A straight piece of centreline from `start` to `end` (mm)."""
+
+    start: Vec
+    end: Vec
+    s_start: float  # centreline distance from end A at the start (mm)
+
+    @property
+    def length(self) -> float:
+        return float(np.linalg.norm(np.subtract(self.end, self.start)))
+
+    def points(self, n: int) -> np.ndarray:
+        u = np.linspace(0.0, 1.0, n + 1)[:, None]
+        return np.asarray(self.start) * (1 - u) + np.asarray(self.end) * u
+
+
+@dataclass(frozen=True)
+class Arc3:
+    """A circular arc (or helical turn when `pitch` > 0) of the centreline.
+
+    Points: P(phi) = centre + radius*(cos(phi)*u + sin(phi)*v) + pitch*phi/(2 pi)*axis,
+    phi from 0 to `angle` (radians). `u` points from the centre to the start.
+    """
+
+    centre: Vec
+    radius: float
+    u: Vec
+    v: Vec
+    axis: Vec
+    angle: float
+    pitch: float
+    s_start: float
+
+    @property
+    def length(self) -> float:
+        return self.angle * math.hypot(self.radius, self.pitch / (2 * math.pi))
+
+    def point(self, phi: float) -> np.ndarray:
+        return (np.asarray(self.centre) + self.radius * (math.cos(phi) * np.asarray(self.u)
+                + math.sin(phi) * np.asarray(self.v))
+                + self.pitch * phi / (2 * math.pi) * np.asarray(self.axis))
+
+    def points(self, n: int) -> np.ndarray:
+        phi = np.linspace(0.0, self.angle, n + 1)[:, None]
+        return (np.asarray(self.centre) + self.radius * (np.cos(phi) * np.asarray(self.u)
+                + np.sin(phi) * np.asarray(self.v))
+                + self.pitch * phi / (2 * math.pi) * np.asarray(self.axis))
+
+    @property
+    def start(self) -> np.ndarray:
+        return self.point(0.0)
+
+    @property
+    def end(self) -> np.ndarray:
+        return self.point(self.angle)
+
+
+Primitive = Union[Line3, Arc3]
+
+
+@dataclass(frozen=True)
+class BendSpan:
+    """Where one bend lies along the stock (neutral-axis positions, mm from end A)."""
+
+    index: int  # 1-based, in order from end A
+    bend: Bend
+    straight_before_mm: float  # straight run between the previous bend (or end A) and this one
+    start_mm: float
+    end_mm: float
+    neutral_radius_mm: float
+    start_point: Vec  # tangent point where the bend starts (centreline, mm)
+    end_point: Vec
+
+
+def _rotate(vec: np.ndarray, axis: np.ndarray, angle: float) -> np.ndarray:
+    """Rodrigues rotation of `vec` about unit `axis` by `angle` radians."""
+    c, s = math.cos(angle), math.sin(angle)
+    return vec * c + np.cross(axis, vec) * s + axis * float(np.dot(axis, vec)) * (1 - c)
+
+
+@dataclass(frozen=True)
+class BendPath:
+    """One piece of stock from end A to end B.
+
+    `gap_mm` is the width of the feed gap between end B and end A when the
+    ends form the feed (a loop or folded dipole); None for an open path.
+    """
+
+    pieces: tuple[Piece, ...]
+    origin: Vec = (0.0, 0.0, 0.0)
+    heading: Vec = (1.0, 0.0, 0.0)
+    normal: Vec = (0.0, 1.0, 0.0)
+    gap_mm: float | None = None
+    _cache: dict = field(default_factory=dict, compare=False, repr=False, hash=False)
+
+    # -- lengths ------------------------------------------------------------
+    @property
+    def bends(self) -> tuple[Bend, ...]:
+        return tuple(p for p in self.pieces if isinstance(p, Bend))
+
+    @staticmethod
+    def piece_length(piece: Piece, radius_of_bend: float | None = None) -> float:
+        if isinstance(piece, Straight):
+            return piece.length_mm
+        r = piece.radius_mm if radius_of_bend is None else radius_of_bend
+        return math.radians(piece.angle_deg) * math.hypot(r, piece.pitch_mm / (2 * math.pi))
+
+    def centreline_length(self) -> float:
+        """Length of the centreline (mm), without the gap."""
+        return sum(self.piece_length(p) for p in self.pieces)
+
+    def developed_length(self, depth_mm: float, k_factor: float = 0.5) -> float:
+        """Length of straight stock needed: the neutral axis length (mm)."""
+        total = 0.0
+        for p in self.pieces:
+            if isinstance(p, Bend):
+                total += self.piece_length(p, neutral_radius(p.radius_mm, depth_mm, k_factor))
+            else:
+                total += p.length_mm
+        return total
+
+    def spans(self, depth_mm: float, k_factor: float = 0.5) -> list[BendSpan]:
+        """Each bend's start and end along the stock (neutral axis, from end A)."""
+        prims = self.primitives()
+        out: list[BendSpan] = []
+        s = 0.0
+        straight = 0.0
+        for piece, prim in zip(self.pieces, prims):
+            if isinstance(piece, Straight):
+                s += piece.length_mm
+                straight += piece.length_mm
+                continue
+            rn = neutral_radius(piece.radius_mm, depth_mm, k_factor)
+            length = self.piece_length(piece, rn)
+            out.append(BendSpan(len(out) + 1, piece, straight, s, s + length, rn,
+                                _vec(prim.start), _vec(prim.end)))
+            s += length
+            straight = 0.0
+        return out
+
+    def tail_straight(self) -> float:
+        """Straight run after the last bend to end B (mm)."""
+        total = 0.0
+        for p in reversed(self.pieces):
+            if isinstance(p, Bend):
+                break
+            total += p.length_mm
+        return total
+
+    # -- geometry -----------------------------------------------------------
+    def primitives(self) -> list[Primitive]:
+        """The centreline as 3D lines and arcs, from end A."""
+        if "prims" in self._cache:
+            return self._cache["prims"]
+        pos = np.asarray(self.origin, dtype=float)
+        t = _unit(np.asarray(self.heading, dtype=float))
+        n = np.asarray(self.normal, dtype=float)
+        n = _unit(n - t * float(np.dot(n, t)))
+        prims: list[Primitive] = []
+        s = 0.0
+        for piece in self.pieces:
+            if isinstance(piece, Straight):
+                end = pos + t * piece.length_mm
+                prims.append(Line3(_vec(pos), _vec(end), s))
+                pos = end
+                s += piece.length_mm
+                continue
+            if piece.rotation_deg:
+                n = _rotate(n, t, math.radians(piece.rotation_deg))
+            b = np.cross(t, n)
+            r = piece.radius_mm
+            theta = math.radians(piece.angle_deg)
+            alpha = math.atan2(piece.pitch_mm, 2 * math.pi * r)
+            axis = math.sin(alpha) * t + math.cos(alpha) * b
+            c0 = math.cos(alpha) * t - math.sin(alpha) * b
+            centre = pos + r * n
+            # P(phi) = centre + r(-cos phi n + sin phi c0) + pitch phi/2pi axis
+            arc = Arc3(_vec(centre), r, _vec(-n), _vec(c0), _vec(axis), theta, piece.pitch_mm, s)
+            prims.append(arc)
+            end = arc.point(theta)
+            tangent = r * (math.sin(theta) * n + math.cos(theta) * c0) \
+                + piece.pitch_mm / (2 * math.pi) * axis
+            t_new = _unit(tangent)
+            n_new = math.cos(theta) * n - math.sin(theta) * c0
+            n = _unit(n_new - t_new * float(np.dot(n_new, t_new)))
+            t = t_new
+            pos = end
+            s += arc.length
+        self._cache["prims"] = prims
+        return prims
+
+    def end_point(self) -> np.ndarray:
+        prims = self.primitives()
+        return np.asarray(prims[-1].end, dtype=float) if prims else np.asarray(self.origin)
+
+    def end_tangent(self) -> np.ndarray:
+        prims = self.primitives()
+        last = prims[-1]
+        if isinstance(last, Line3):
+            return _unit(np.subtract(last.end, last.start))
+        a = last
+        th = a.angle
+        d = a.radius * (-math.sin(th) * np.asarray(a.u) + math.cos(th) * np.asarray(a.v)) \
+            + a.pitch / (2 * math.pi) * np.asarray(a.axis)
+        return _unit(d)
+
+    def sample(self, step_mm: float) -> tuple[np.ndarray, np.ndarray]:
+        """Points on the centreline no further apart than `step_mm`, and their
+        centreline distance from end A. Returns (points (N, 3), s (N,))."""
+        pts = []
+        ss = []
+        for prim in self.primitives():
+            n = max(1, math.ceil(prim.length / step_mm))
+            p = prim.points(n)
+            s = prim.s_start + np.linspace(0.0, prim.length, n + 1)
+            if pts:
+                p, s = p[1:], s[1:]
+            pts.append(p)
+            ss.append(s)
+        if not pts:
+            return np.zeros((0, 3)), np.zeros(0)
+        return np.vstack(pts), np.concatenate(ss)
+
+    def is_planar(self, tol_mm: float = 1e-6) -> bool:
+        pts, _ = self.sample(max(self.centreline_length() / 400, 1e-3))
+        return bool(np.all(np.abs(pts[:, 2]) <= tol_mm))
+
+    def gap_ends(self) -> tuple[np.ndarray, np.ndarray]:
+        """The centre points of end B and end A (the two faces of the feed gap)."""
+        return self.end_point(), np.asarray(self.origin, dtype=float)
+
+    def closure_error(self) -> float:
+        """For a gapped path: how far the ends' distance misses the gap width (mm)."""
+        if self.gap_mm is None:
+            return 0.0
+        apart = float(np.linalg.norm(self.end_point() - np.asarray(self.origin, dtype=float)))
+        return abs(apart - self.gap_mm)
+
+    def touching(self, diameter_mm: float) -> list[tuple[float, float, float]]:
+        """Places where the conductor surface touches or crosses itself.
+
+        Returns (s1, s2, centre distance) for each touching pair (mm), merging
+        neighbours. The intended feed gap is not a touch.
+        """
+        from scipy.spatial import cKDTree
+
+        step = diameter_mm / 4
+        pts, s = self.sample(step)
+        total = self.centreline_length() + (self.gap_mm or 0.0)
+        tree = cKDTree(pts)
+        pairs = tree.query_pairs(diameter_mm * (1 - 1e-6), output_type="ndarray")
+        if len(pairs) == 0:
+            return []
+        ds = np.abs(s[pairs[:, 0]] - s[pairs[:, 1]])
+        if self.gap_mm is not None:
+            ds = np.minimum(ds, total - ds)
+        # along one smooth bend of radius >= d/2, points more than (pi/2) d apart
+        # along the stock are at least d apart: closer than that is a touch
+        bad = pairs[ds > (math.pi / 2) * diameter_mm + 2 * step]
+        if self.gap_mm is not None and len(bad):
+            # pairs across the gap near the ends are the gap itself
+            near_a = s[bad].min(axis=1) < 2 * diameter_mm
+            near_b = s[bad].max(axis=1) > self.centreline_length() - 2 * diameter_mm
+            bad = bad[~(near_a & near_b)]
+        out: list[tuple[float, float, float]] = []
+        for i, j in sorted(bad.tolist(), key=lambda ij: (s[min(ij)], s[max(ij)])):
+            a, b = sorted((float(s[i]), float(s[j])))
+            dist = float(np.linalg.norm(pts[i] - pts[j]))
+            if out and abs(out[-1][0] - a) < 2 * diameter_mm:
+                if dist < out[-1][2]:
+                    out[-1] = (a, b, dist)
+                continue
+            out.append((a, b, dist))
+        return out
+
+    def scaled(self, factor: float) -> "BendPath":
+        """Every length times `factor` (angles kept)."""
+        pieces = tuple(Straight(p.length_mm * factor) if isinstance(p, Straight)
+                       else Bend(p.radius_mm * factor, p.angle_deg, p.rotation_deg,
+                                 p.pitch_mm * factor) for p in self.pieces)
+        return BendPath(pieces, tuple(c * factor for c in self.origin), self.heading,
+                        self.normal, None if self.gap_mm is None else self.gap_mm * factor)
+
+
+def _unit(v: np.ndarray) -> np.ndarray:
+    return v / float(np.linalg.norm(v))
+
+
+def _vec(v: np.ndarray | tuple) -> Vec:
+    a = [float(x) for x in v]
+    return (a[0], a[1], a[2])

@@ -1,0 +1,88 @@
+"""Custom: a bend table given directly, in trade order from end A.
+
+Each row of `bends` is the straight before the bend, the bend angle, its
+centreline radius and the rotation of its plane relative to the previous bend;
+`tail` is the straight after the last bend. With `feed_gap`, the stock's ends
+must meet across a gap of that width (a loop); fabplan checks that they do.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass
+
+import numpy as np
+
+from ...config import Section
+from ...errors import DesignError, Finding
+from ..path import Bend, BendPath, Straight
+from .base import ShapeSpec
+
+NAME = "custom"
+SUMMARY = "a bend table given directly (straight, angle, radius, rotation per bend)"
+
+
+@dataclass(frozen=True)
+class Row:
+    straight_mm: float
+    angle_deg: float
+    radius_mm: float
+    rotation_deg: float = 0.0
+
+
+@dataclass(frozen=True)
+class Params:
+    rows: tuple[Row, ...]
+    tail_mm: float
+    feed_gap_mm: float | None = None
+
+
+def read(sec: Section) -> Params:
+    rows = []
+    for row in sec.tables("bends", required=True):
+        angle = row.angle("angle")
+        if not 0 < angle <= 360:
+            raise DesignError("a bend angle must be more than 0 and at most 360 degrees",
+                              field=row.field("angle"), value=angle)
+        rows.append(Row(row.length("straight", 0.0, allow_zero=True), angle,
+                        row.length("radius"), row.angle("rotation", 0.0)))
+        row.finish()
+    if not rows:
+        raise DesignError("give at least one bend", field=sec.field("bends"))
+    tail = sec.length("tail", 0.0, allow_zero=True)
+    gap = sec.length("feed_gap", None)
+    return Params(tuple(rows), tail, gap)
+
+
+def build(p: Params, d: float) -> BendPath:
+    pieces: list = []
+    for row in p.rows:
+        if row.straight_mm > 0:
+            pieces.append(Straight(row.straight_mm))
+        pieces.append(Bend(row.radius_mm, row.angle_deg, row.rotation_deg))
+    if p.tail_mm > 0:
+        pieces.append(Straight(p.tail_mm))
+    return BendPath(tuple(pieces), gap_mm=p.feed_gap_mm)
+
+
+def problems(p: Params, d: float) -> list[Finding]:
+    if p.feed_gap_mm is None:
+        return []
+    path = build(p, d)
+    miss = float(np.linalg.norm(path.end_point() - np.asarray(path.origin)))
+    if abs(miss - p.feed_gap_mm) > max(0.5, 0.1 * d):
+        return [Finding("ends-do-not-meet", "error",
+                        f"the bend table's ends are {miss:.1f} mm apart, not the "
+                        f"{p.feed_gap_mm:.1f} mm feed gap: check the straights and angles")]
+    return []
+
+
+def governing(p: Params) -> tuple[str, float]:
+    return "tail", p.tail_mm
+
+
+def with_governing(p: Params, value: float) -> Params:
+    return dataclasses.replace(p, tail_mm=value)
+
+
+SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, False)

@@ -1,0 +1,83 @@
+"""Hairpin (U): two parallel legs joined by one 180-degree bend, or by two
+90-degree bends with a straight between (`end_style = "square"`).
+
+The stock's ends are the free ends of the legs; its centre is in the middle
+of the bend (or of the straight between the two bends).
+"""
+
+from __future__ import annotations
+
+import dataclasses
+from dataclasses import dataclass
+from typing import Literal
+
+from ...config import Section
+from ...errors import Finding
+from ..path import Bend, BendPath, Straight
+from .base import ShapeSpec, spacing_centre
+
+NAME = "hairpin"
+SUMMARY = "two parallel legs joined by a 180-degree bend (or two 90-degree bends)"
+
+
+@dataclass(frozen=True)
+class Params:
+    leg_mm: float
+    spacing_kind: Literal["spacing", "centre_spacing"]
+    spacing_mm: float
+    end_style: Literal["round", "square"] = "round"
+    bend_radius_mm: float | None = None
+
+    def centre_spacing(self, d: float) -> float:
+        return self.spacing_mm + d if self.spacing_kind == "spacing" else self.spacing_mm
+
+    def radius(self, d: float) -> float:
+        if self.end_style == "square":
+            return self.bend_radius_mm if self.bend_radius_mm is not None else d
+        return self.centre_spacing(d) / 2
+
+
+def read(sec: Section) -> Params:
+    leg = sec.length("leg")
+    kind, spacing = spacing_centre(sec)
+    style = sec.string("end_style", "round", choices=("round", "square"))
+    radius = sec.length("bend_radius", None)
+    return Params(leg, kind, spacing, style, radius)
+
+
+def build(p: Params, d: float) -> BendPath:
+    r = p.radius(d)
+    c = p.centre_spacing(d)
+    if p.end_style == "round":
+        middle: list = [Bend(r, 180.0)]
+        straight_leg = p.leg_mm
+    else:
+        link = c - 2 * r
+        middle = [Bend(r, 90.0)] + ([Straight(link)] if link > 1e-9 else []) + [Bend(r, 90.0)]
+        straight_leg = p.leg_mm
+    return BendPath((Straight(straight_leg), *middle, Straight(straight_leg)),
+                    origin=(-straight_leg, -c / 2, 0.0))
+
+
+def problems(p: Params, d: float) -> list[Finding]:
+    out = []
+    if p.centre_spacing(d) <= d:
+        out.append(Finding("conductors-touch", "error",
+                           f"centre spacing {p.centre_spacing(d):.1f} mm is not more than the "
+                           f"conductor diameter {d:.2f} mm: the legs touch; widen the spacing"))
+    if p.end_style == "square" and p.centre_spacing(d) < 2 * p.radius(d) - 1e-9:
+        out.append(Finding("end-radius-too-large", "error",
+                           f"two {p.radius(d):.1f} mm bends need a centre spacing of at least "
+                           f"{2 * p.radius(d):.1f} mm; use a smaller bend radius"))
+    return out
+
+
+def governing(p: Params) -> tuple[str, float]:
+    return "leg", p.leg_mm
+
+
+def with_governing(p: Params, value: float) -> Params:
+    return dataclasses.replace(p, leg_mm=value)
+
+
+SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, False)

@@ -1,0 +1,194 @@
+"""Lengths in millimetres inside; inches, feet, cm and m at the edges.
+
+A length in a design file is a string with its unit: "35 1/4 in", "35.25in",
+"2 ft 11 1/4 in", "2'-11 1/4\"", "1/4\"", "894.6 mm", "89.46 cm", "0.8946 m".
+A bare number is an error, never a guess.
+"""
+
+from __future__ import annotations
+
+import math
+import re
+from fractions import Fraction
+from typing import Literal
+
+from .errors import DesignError
+
+__all__ = [
+    "MM", "CM", "M", "IN", "FT", "LengthUnit", "LENGTH_UNITS", "FRACTIONS",
+    "parse_length", "parse_frequency", "parse_angle", "format_inches", "format_mm",
+    "format_length", "format_frequency",
+]
+
+MM = 1.0
+CM = 10.0
+M = 1000.0
+IN = 25.4
+FT = 304.8
+
+LengthUnit = Literal["in", "mm"]
+LENGTH_UNITS: tuple[LengthUnit, ...] = ("in", "mm")
+FRACTIONS = (8, 16, 32, 64)
+
+_FACTORS = {
+    "mm": MM, "millimetre": MM, "millimetres": MM, "millimeter": MM, "millimeters": MM,
+    "cm": CM, "m": M, "metre": M, "metres": M, "meter": M, "meters": M,
+    "in": IN, "inch": IN, "inches": IN, '"': IN, "''": IN,
+    "ft": FT, "foot": FT, "feet": FT, "'": FT,
+}
+# one number: a decimal, a whole number and a fraction, or a fraction
+_NUM = r"(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?"
+_QTY = rf"(?P<num>{_NUM}(?:\s+\d+/\d+)?|\d+/\d+)"
+_TERM = re.compile(rf"\s*{_QTY}\s*(?P<unit>[a-zA-Z]+|''|\"|')\s*-?")
+
+
+def _number(text: str) -> float:
+    parts = text.split()
+    total = 0.0
+    for part in parts:
+        if "/" in part:
+            num, den = part.split("/")
+            if int(den) == 0:
+                raise ValueError("zero denominator")
+            total += int(num) / int(den)
+        else:
+            total += float(part)
+    return total
+
+
+def parse_length(text: object, field: str, *, allow_zero: bool = False,
+                 allow_negative: bool = False) -> float:
+    """Parse a length with its unit and return millimetres.
+
+    `field` names the design key for the error message. Zero and negative
+    lengths are errors unless allowed.
+    """
+    if isinstance(text, bool) or not isinstance(text, str):
+        if isinstance(text, (int, float)):
+            raise DesignError('a bare number has no unit: write it as a string with its unit, '
+                              'e.g. "35 1/4 in" or "894.6 mm"', field=field, value=text)
+        raise DesignError("expected a length with a unit, e.g. \"35 1/4 in\" or \"894.6 mm\"",
+                          field=field, value=text)
+    raw = text.strip()
+    sign = 1.0
+    if raw.startswith("-"):
+        sign = -1.0
+        raw = raw[1:].lstrip()
+    if raw.lower() in {"nan", "inf", "infinity"} or re.search(r"nan|inf", raw.lower()):
+        raise DesignError("a length must be a finite number with a unit", field=field, value=text)
+    pos = 0
+    total = 0.0
+    seen_any = False
+    while pos < len(raw):
+        m = _TERM.match(raw, pos)
+        if not m or m.end() == pos:
+            break
+        unit = m.group("unit")
+        factor = _FACTORS.get(unit.lower() if unit not in {'"', "'", "''"} else unit)
+        if factor is None:
+            raise DesignError(f"unknown unit {unit!r}: use in, ft, mm, cm or m",
+                              field=field, value=text)
+        try:
+            total += _number(m.group("num")) * factor
+        except (ValueError, ZeroDivisionError):
+            raise DesignError("not a number", field=field, value=text) from None
+        seen_any = True
+        pos = m.end()
+    rest = raw[pos:].strip()
+    if not seen_any or rest:
+        if re.fullmatch(rf"{_NUM}(\s+\d+/\d+)?|\d+/\d+", raw):
+            raise DesignError('a bare number has no unit: add one, e.g. "35 1/4 in" or "894.6 mm"',
+                              field=field, value=text)
+        raise DesignError('not a length: write a number with its unit, e.g. "35 1/4 in", '
+                          '"2 ft 11 1/4 in" or "894.6 mm"', field=field, value=text)
+    value = sign * total
+    if not math.isfinite(value):
+        raise DesignError("a length must be finite", field=field, value=text)
+    if value < 0 and not allow_negative:
+        raise DesignError("must not be negative", field=field, value=text)
+    if value == 0 and not allow_zero:
+        raise DesignError("must be greater than zero", field=field, value=text)
+    return value
+
+
+_FREQ = {"hz": 1.0, "khz": 1e3, "mhz": 1e6, "ghz": 1e9}
+
+
+def parse_frequency(text: object, field: str) -> float:
+    """Parse "146 MHz", "7.1 MHz", "433.92MHz" into hertz (positive, finite)."""
+    if not isinstance(text, str):
+        raise DesignError('expected a frequency with its unit, e.g. "146 MHz"', field=field,
+                          value=text)
+    m = re.fullmatch(rf"\s*({_NUM})\s*([a-zA-Z]+)\s*", text)
+    if not m:
+        raise DesignError('expected a frequency with its unit, e.g. "146 MHz"', field=field,
+                          value=text)
+    factor = _FREQ.get(m.group(2).lower())
+    if factor is None:
+        raise DesignError(f"unknown frequency unit {m.group(2)!r}: use Hz, kHz, MHz or GHz",
+                          field=field, value=text)
+    value = float(m.group(1)) * factor
+    if not math.isfinite(value) or value <= 0:
+        raise DesignError("must be a positive frequency", field=field, value=text)
+    return value
+
+
+def parse_angle(value: object, field: str) -> float:
+    """An angle in degrees: a number, or a string such as "90 deg"."""
+    if isinstance(value, bool):
+        raise DesignError("expected an angle in degrees", field=field, value=value)
+    if isinstance(value, (int, float)):
+        deg = float(value)
+    elif isinstance(value, str):
+        m = re.fullmatch(rf"\s*(-?{_NUM})\s*(deg|degrees|°)?\s*", value)
+        if not m:
+            raise DesignError('expected an angle in degrees, e.g. 90 or "90 deg"', field=field,
+                              value=value)
+        deg = float(m.group(1))
+    else:
+        raise DesignError("expected an angle in degrees", field=field, value=value)
+    if not math.isfinite(deg):
+        raise DesignError("an angle must be finite", field=field, value=value)
+    return deg
+
+
+def format_inches(mm: float, denominator: int = 32) -> str:
+    """A length as a tape measure reads it: `35 1/4"`, `1 3/32"`, `-5/8"`."""
+    if denominator not in FRACTIONS:
+        raise DesignError(f"fraction precision must be one of {FRACTIONS}", field="precision",
+                          value=denominator)
+    sign = "-" if mm < 0 else ""
+    ticks = round(round(abs(mm) / IN * denominator, 6))
+    whole, rest = divmod(ticks, denominator)
+    if rest == 0:
+        return f'{sign}{whole}"'
+    frac = Fraction(rest, denominator)
+    if whole == 0:
+        return f'{sign}{frac.numerator}/{frac.denominator}"'
+    return f'{sign}{whole} {frac.numerator}/{frac.denominator}"'
+
+
+def format_mm(mm: float, places: int = 1) -> str:
+    """Millimetres to 0.1 by default: `894.6 mm`."""
+    value = round(round(mm, 6), places)
+    if value == 0:
+        value = 0.0
+    return f"{value:.{places}f} mm"
+
+
+def format_length(mm: float, primary: LengthUnit = "in", denominator: int = 32) -> str:
+    """Both units, the design's primary unit first: `35 1/4" (895.4 mm)`."""
+    if primary == "in":
+        return f"{format_inches(mm, denominator)} ({format_mm(mm)})"
+    return f"{format_mm(mm)} ({format_inches(mm, denominator)})"
+
+
+def format_frequency(hz: float) -> str:
+    """`146.000 MHz`, `7.150 MHz`, `915 kHz` style."""
+    if hz >= 1e9:
+        return f"{hz / 1e9:.4f} GHz"
+    if hz >= 1e6:
+        return f"{hz / 1e6:.3f} MHz"
+    if hz >= 1e3:
+        return f"{hz / 1e3:.2f} kHz"
+    return f"{hz:.1f} Hz"
