@@ -1,0 +1,1 @@
+"""Electrical check: thin-wire method of moments on the element as bent."""

@@ -1,0 +1,1 @@
+"""Forming: springback, jig formers, hand-bender marks, bend order, feasibility."""
