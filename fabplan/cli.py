@@ -4,6 +4,7 @@ engineering here. Bad input prints one line and exits with status 2."""
 from __future__ import annotations
 
 import functools
+import importlib
 import sys
 from importlib import resources
 from pathlib import Path
@@ -147,6 +148,21 @@ def stock() -> None:
     rows = [[i.key, i.description, i.material, i.source] for i in CATALOGUE.values()]
     click.echo(table(["key", "description", "default material", "source"], rows))
 
+
+# Commands of later stages live in fabplan/commands/, one module per stage,
+# each with a COMMANDS list of click commands. Keep those modules light: heavy
+# imports inside the command functions.
+COMMAND_MODULES: list[str] = [
+]
+
+
+def _register_commands() -> None:
+    for name in COMMAND_MODULES:
+        for command in importlib.import_module(name).COMMANDS:
+            main.add_command(command)
+
+
+_register_commands()
 
 if __name__ == "__main__":  # pragma: no cover
     main()
