@@ -222,6 +222,7 @@ def _read_elements(top: Section) -> tuple[ElementSpec, ...]:
         names.add(name)
         quantity = sec.integer("quantity", 1, low=1, high=100_000)
         trim = sec.length("trim", None, allow_zero=True)
+        sec.finish(also_allowed=SHAPES[shape].keys)  # misspelt keys first: they explain the rest
         params = SHAPES[shape].read(sec)
         sec.finish()
         out.append(ElementSpec(name, shape, params, quantity, trim))

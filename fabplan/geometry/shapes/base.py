@@ -25,6 +25,7 @@ __all__ = ["ShapeSpec", "pick_one", "spacing_centre", "gap_and_offset", "arc_ang
 class ShapeSpec:
     name: str
     summary: str
+    keys: tuple[str, ...]  # every key `read` may take from the element table
     read: Callable[[Section], Any]
     build: Callable[[Any, float], BendPath]
     problems: Callable[[Any, float], list[Finding]]

@@ -59,4 +59,7 @@ def with_governing(p: Params, value: float) -> Params:
     return dataclasses.replace(p, diameter_mm=value / math.pi)
 
 
-SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, True)
+KEYS = ("diameter", "circumference", "feed_gap")
+
+SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
+                 True)

@@ -85,4 +85,7 @@ def with_governing(p: Params, value: float) -> Params:
     return dataclasses.replace(p, tail_mm=value)
 
 
-SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, False)
+KEYS = ("bends", "tail", "feed_gap")
+
+SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
+                 False)

@@ -117,4 +117,7 @@ def with_governing(p: Params, value: float) -> Params:
     return dataclasses.replace(p, base_mm=p.base_mm * f, legs_mm=p.legs_mm * f)
 
 
-SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, True)
+KEYS = ("side", "base", "legs", "corner_radius", "feed_gap", "feed_offset", "feed")
+
+SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
+                 True)

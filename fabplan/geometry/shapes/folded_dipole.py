@@ -121,4 +121,7 @@ def with_governing(p: Params, value: float) -> Params:
     return dataclasses.replace(p, length_mm=value)
 
 
-SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, True)
+KEYS = ("side", "inside_length", "overall_length", "spacing", "centre_spacing", "feed_gap", "feed_offset", "end_style", "bend_radius")
+
+SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
+                 True)

@@ -80,4 +80,7 @@ def with_governing(p: Params, value: float) -> Params:
     return dataclasses.replace(p, leg_mm=value)
 
 
-SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, False)
+KEYS = ("leg", "spacing", "centre_spacing", "end_style", "bend_radius")
+
+SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
+                 False)

@@ -68,4 +68,7 @@ def with_governing(p: Params, value: float) -> Params:
     return dataclasses.replace(p, turns=value)
 
 
-SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, False)
+KEYS = ("turns", "diameter", "pitch", "coil_length", "lead_in", "lead_out")
+
+SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
+                 False)

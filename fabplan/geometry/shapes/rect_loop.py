@@ -89,4 +89,7 @@ def with_governing(p: Params, value: float) -> Params:
     return dataclasses.replace(p, width_mm=p.width_mm * f, height_mm=p.height_mm * f)
 
 
-SPEC = ShapeSpec(NAME, SUMMARY, read, build, problems, governing, with_governing, True)
+KEYS = ("side", "width", "height", "corner_radius", "feed_gap", "feed_offset", "feed_side")
+
+SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
+                 True)

@@ -1,0 +1,133 @@
+"""Bend-path geometry: developed lengths against textbook formulas, invariants."""
+
+from __future__ import annotations
+
+import math
+
+import numpy as np
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from fabplan.geometry.path import Bend, BendPath, Straight, neutral_radius
+from fabplan.geometry.shapes import circle_loop, delta_loop, folded_dipole, helix, rect_loop
+
+
+def test_folded_dipole_hand_formula():
+    # common practice, no source: developed length = 2 x side + pi x (inside spacing + d) - gap
+    d, side, spacing, gap = 6.35, 900.0, 50.0, 12.0
+    path = folded_dipole.build(folded_dipole.Params("side", side, "spacing", spacing, gap), d)
+    assert path.developed_length(d) == pytest.approx(2 * side + math.pi * (spacing + d) - gap)
+    assert path.closure_error() < 1e-9
+    assert path.touching(d) == []
+
+
+@pytest.mark.parametrize("turns", [[90, 90, 90, 90], [120, 120, 120]])
+def test_rounded_polygon_formula(turns):
+    # textbook geometry: L = sum sides - 2 r sum tan(theta/2) + r sum theta
+    r, side, gap = 20.0, 300.0, 10.0
+    if len(turns) == 4:
+        path = rect_loop.build(rect_loop.Params(side, side, r, gap), 3.0)
+    else:
+        path = delta_loop.build(delta_loop.Params(side, side, r, gap), 3.0)
+    th = np.radians(turns)
+    expected = len(turns) * side - 2 * r * np.tan(th / 2).sum() + r * th.sum() - gap
+    assert path.centreline_length() == pytest.approx(expected)
+    assert path.closure_error() < 1e-9
+
+
+def test_helix_formula():
+    # textbook geometry: helix length = N sqrt((pi D)^2 + p^2)
+    p = helix.Params(turns=7.5, diameter_mm=80.0, pitch_mm=35.0)
+    path = helix.build(p, 2.0)
+    assert path.centreline_length() == pytest.approx(7.5 * math.hypot(math.pi * 80, 35))
+    pts, _ = path.sample(1.0)
+    # the coil advances pitch x turns along its axis and keeps its diameter
+    axis = np.asarray(path.primitives()[0].axis)
+    along = pts @ axis
+    assert along.max() - along.min() == pytest.approx(7.5 * 35.0, rel=1e-3)
+    assert path.touching(2.0) == []
+
+
+def test_circle_loop_closes_on_its_gap():
+    p = circle_loop.Params(300.0, 12.0)
+    path = circle_loop.build(p, 8.0)
+    ends = np.linalg.norm(path.end_point() - np.asarray(path.origin))
+    assert ends == pytest.approx(12.0)
+    # chord 12 on a 150 mm radius circle: the arc left out is 2 asin(6/150) radians
+    assert path.centreline_length() == pytest.approx(150 * (2 * math.pi - 2 * math.asin(6 / 150)))
+
+
+def test_k_factor_moves_the_neutral_axis():
+    # source: Machinery's Handbook, bend allowance BA = theta (R_inside + K T)
+    assert neutral_radius(10.0, 4.0, 0.5) == pytest.approx(10.0)
+    assert neutral_radius(10.0, 4.0, 0.35) == pytest.approx(8.0 + 0.35 * 4)
+    path = BendPath((Straight(50), Bend(10.0, 90.0), Straight(50)))
+    ba = math.pi / 2 * (8.0 + 0.35 * 4)
+    assert path.developed_length(4.0, 0.35) == pytest.approx(100 + ba)
+
+
+def test_rotation_makes_a_non_planar_path():
+    flat = BendPath((Straight(100), Bend(20, 90), Straight(100), Bend(20, 90), Straight(100)))
+    twisted = BendPath((Straight(100), Bend(20, 90), Straight(100), Bend(20, 90, 90.0),
+                        Straight(100)))
+    assert flat.is_planar() and not twisted.is_planar()
+    assert flat.centreline_length() == pytest.approx(twisted.centreline_length())
+    # after the out-of-plane bend the last run points along +/- z
+    assert abs(twisted.end_tangent()[2]) == pytest.approx(1.0)
+
+
+def test_touching_agrees_with_shapely():
+    """The conductor touches itself exactly where shapely finds the buffered legs meeting."""
+    from shapely.geometry import LineString
+
+    d = 5.0
+    for centre_spacing in (2.6, 4.9, 5.2, 8.0):  # a hairpin's legs, centre to centre
+        path = BendPath((Straight(200), Bend(centre_spacing / 2, 180), Straight(200)))
+        pts, s = path.sample(0.5)
+        length = path.centreline_length()
+        leg_a = LineString(pts[s <= 200][:, :2])
+        leg_b = LineString(pts[s >= length - 200][:, :2])
+        # source: shapely (GEOS) buffers as the reference for planar clearance
+        expected = leg_a.buffer(d / 2, quad_segs=32).intersects(leg_b.buffer(d / 2, quad_segs=32))
+        assert bool(path.touching(d)) == expected, centre_spacing
+        assert expected == (centre_spacing <= d)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.lists(st.tuples(st.floats(1, 500), st.floats(5, 175), st.floats(5, 100),
+                          st.sampled_from([0.0, 90.0, 180.0, 270.0])), min_size=1, max_size=6),
+       st.floats(0, 500), st.floats(0.5, 10))
+def test_developed_length_is_the_sum_of_its_pieces(rows, tail, depth):
+    pieces = []
+    for straight, angle, radius, rot in rows:
+        pieces += [Straight(straight), Bend(radius, angle, rot)]
+    pieces.append(Straight(tail))
+    path = BendPath(tuple(pieces))
+    spans = path.spans(depth, 0.4)
+    total = sum(s for s, *_ in rows) + tail + sum(
+        math.radians(a) * neutral_radius(r, depth, 0.4) for _, a, r, _ in rows)
+    assert path.developed_length(depth, 0.4) == pytest.approx(total)
+    # spans are in order, each starting after the previous ended, straights between
+    ends = [0.0] + [s.end_mm for s in spans]
+    for prev_end, span, (straight, *_rest) in zip(ends, spans, rows):
+        assert span.start_mm - prev_end == pytest.approx(straight)
+        assert span.straight_before_mm == pytest.approx(straight)
+    # the 3D polyline's length equals the centreline length
+    pts, _ = path.sample(0.25)
+    poly = float(np.linalg.norm(np.diff(pts, axis=0), axis=1).sum())
+    assert poly == pytest.approx(path.centreline_length(), rel=2e-3)
+
+
+@settings(max_examples=60, deadline=None)
+@given(st.floats(100, 3000), st.floats(5, 200), st.floats(1, 30), st.floats(0.5, 6),
+       st.floats(0.1, 10))
+def test_scaling_every_dimension_scales_every_length(side, spacing, gap, d, factor):
+    p = folded_dipole.Params("side", side, "spacing", spacing, min(gap, side / 3))
+    a = folded_dipole.build(p, d)
+    b = a.scaled(factor)
+    assert b.developed_length(d * factor) == pytest.approx(a.developed_length(d) * factor)
+    for sa, sb in zip(a.spans(d), b.spans(d * factor)):
+        assert sb.start_mm == pytest.approx(sa.start_mm * factor)
+        assert sb.end_mm == pytest.approx(sa.end_mm * factor)
+    assert b.closure_error() == pytest.approx(0.0, abs=1e-6 * factor * side)

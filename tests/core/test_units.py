@@ -1,0 +1,99 @@
+"""Length parsing and tape-measure formatting."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from fabplan.errors import DesignError
+from fabplan.units import (format_inches, format_length, format_mm, parse_frequency,
+                           parse_length)
+
+# 1 in = 25.4 mm exactly (source: international yard and pound agreement, 1959)
+# 35 1/4 in = 895.35 mm; 0.8946 m = 894.6 mm
+
+
+@pytest.mark.parametrize("text, mm", [
+    ("35 1/4 in", 895.35),
+    ("35.25in", 895.35),
+    ("2 ft 11 1/4 in", 895.35),
+    ("2'-11 1/4\"", 895.35),
+    ("1/4\"", 6.35),
+    ("894.6 mm", 894.6),
+    ("89.46 cm", 894.6),
+    ("0.8946 m", 894.6),
+    ("3 ft", 914.4),
+    ("  12 mm ", 12.0),
+])
+def test_parse_length(text, mm):
+    assert parse_length(text, "f") == pytest.approx(mm, abs=1e-9)
+
+
+@pytest.mark.parametrize("value, match", [
+    ("35", "bare number has no unit"),
+    (35, "bare number has no unit"),
+    ("35 furlongs", "unknown unit 'furlongs'"),
+    ("nan mm", "finite"),
+    ("inf in", "finite"),
+    ("0 mm", "greater than zero"),
+    ("-3 mm", "must not be negative"),
+    ("three in", "not a length"),
+    ("", "not a length"),
+    (None, "expected a length"),
+])
+def test_parse_length_errors_name_the_field(value, match):
+    with pytest.raises(DesignError, match=match) as info:
+        parse_length(value, "element.side")
+    assert "element.side" in str(info.value)
+
+
+def test_zero_allowed_where_it_makes_sense():
+    assert parse_length("0 mm", "shop.kerf", allow_zero=True) == 0.0
+
+
+@pytest.mark.parametrize("mm, den, text", [
+    (895.35, 32, '35 1/4"'),
+    (27.78125, 32, '1 3/32"'),   # 1 3/32 in = 27.78125 mm
+    (25.4, 32, '1"'),
+    (3.175, 32, '1/8"'),
+    (-15.875, 32, '-5/8"'),
+    (10.0, 8, '3/8"'),           # 0.3937 in -> nearest 1/8 is 3/8
+    (10.0, 64, '25/64"'),        # 0.3937 in -> 25.2/64 -> 25/64
+])
+def test_format_inches_reads_like_a_tape(mm, den, text):
+    assert format_inches(mm, den) == text
+
+
+def test_format_length_primary_unit():
+    assert format_length(895.35, "in") == '35 1/4" (895.4 mm)'
+    assert format_length(895.35, "mm") == '895.4 mm (35 1/4")'
+    assert format_mm(146.05) == format_mm(-146.05).lstrip("-")
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.integers(min_value=1, max_value=4000), st.sampled_from([8, 16, 32, 64]))
+def test_fraction_round_trip(ticks, den):
+    """A length on the tape's grid formats and parses back exactly."""
+    mm = ticks * 25.4 / den
+    text = format_inches(mm, den)
+    assert parse_length(text.replace('"', " in"), "x") == pytest.approx(mm, abs=1e-9)
+
+
+@settings(max_examples=200, deadline=None)
+@given(st.floats(min_value=0.01, max_value=1e5, allow_nan=False))
+def test_mm_round_trip(mm):
+    assert parse_length(f"{mm!r} mm", "x") == pytest.approx(mm, rel=1e-12)
+    assert parse_length(f"{mm / 1000!r} m", "x") == pytest.approx(mm, rel=1e-12)
+
+
+def test_frequency():
+    assert parse_frequency("146 MHz", "f") == 146e6
+    assert parse_frequency("7.15MHz", "f") == pytest.approx(7.15e6)
+    with pytest.raises(DesignError, match="unknown frequency unit"):
+        parse_frequency("146 MHZZ", "f")
+    with pytest.raises(DesignError, match="with its unit"):
+        parse_frequency("146", "electrical.target")
+    assert math.isfinite(parse_frequency("1 GHz", "f"))
