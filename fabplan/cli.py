@@ -153,6 +153,9 @@ def stock() -> None:
 # each with a COMMANDS list of click commands. Keep those modules light: heavy
 # imports inside the command functions.
 COMMAND_MODULES: list[str] = [
+    "fabplan.commands.estimate",
+    "fabplan.commands.em",
+    "fabplan.commands.output",
 ]
 
 
