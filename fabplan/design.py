@@ -80,7 +80,9 @@ class Design:
 # top-level tables read by later stages: Design field -> "module:function".
 # Each reader takes (top-level Section, Design without extensions) and returns
 # its settings object (or None when its tables are absent).
-EXTENSIONS: dict[str, str] = {}
+EXTENSIONS: dict[str, str] = {
+    "forming": "fabplan.forming.config:read_forming",
+}
 
 
 def load_design(path: str | Path) -> Design:

@@ -118,7 +118,9 @@ class Plan:
 
 
 # later stages, each "module:function" taking a Plan and returning a Plan
-STEPS: list[str] = []
+STEPS: list[str] = [
+    "fabplan.forming.planning:apply",
+]
 
 
 def element_path(spec: ElementSpec, diameter_mm: float) -> BendPath:

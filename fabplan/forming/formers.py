@@ -1,0 +1,142 @@
+"""Jig figures: former discs, marks on the jig, and the splay of parallel legs.
+
+Coordinates are the element's drawing plane (the BendPath's x, y in mm).
+Each bend is made round a disc whose radius is the inside of the bend while
+held (springback-compensated). The disc is placed so that the stock on the
+side of the bend nearer the stock's centre lies where the drawing has it:
+its centre is on the normal at that tangent point, one held centreline radius
+from the centreline (a bend that contains the stock's centre is anchored at
+its middle). The stock beyond wraps further (the overbend) and springs back
+to the drawn shape.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+
+import numpy as np
+
+from ..geometry.path import Arc3, Bend, BendPath, Straight, neutral_radius
+from .model import Former, JigMark
+
+__all__ = ["point_at", "formers", "jig_marks", "spacing", "end_shift"]
+
+
+def point_at(path: BendPath, depth_mm: float, k_factor: float,
+             s_mm: float) -> tuple[np.ndarray, np.ndarray]:
+    """Centreline point and unit tangent (3D) at `s_mm` along the neutral axis from end A."""
+    s = 0.0
+    prims = path.primitives()
+    for piece, prim in zip(path.pieces, prims):
+        if isinstance(piece, Straight):
+            length = piece.length_mm
+            if s_mm <= s + length + 1e-9 or prim is prims[-1]:
+                t = np.subtract(prim.end, prim.start) / max(prim.length, 1e-12)
+                u = min(max(s_mm - s, 0.0), length)
+                return np.asarray(prim.start) + t * u, t
+        else:
+            rn = neutral_radius(piece.radius_mm, depth_mm, k_factor)
+            length = math.radians(piece.angle_deg) * math.hypot(rn, piece.pitch_mm /
+                                                               (2 * math.pi))
+            if s_mm <= s + length + 1e-9 or prim is prims[-1]:
+                phi = prim.angle * min(max((s_mm - s) / length, 0.0), 1.0)
+                return prim.point(phi), _arc_tangent(prim, phi)
+        s += length
+    return np.asarray(path.origin, dtype=float), np.asarray(path.heading, dtype=float)
+
+
+def _arc_tangent(a: Arc3, phi: float) -> np.ndarray:
+    d = a.radius * (-math.sin(phi) * np.asarray(a.u) + math.cos(phi) * np.asarray(a.v)) \
+        + a.pitch / (2 * math.pi) * np.asarray(a.axis)
+    return d / float(np.linalg.norm(d))
+
+
+def _xy(v: np.ndarray) -> tuple[float, float]:
+    return (float(v[0]), float(v[1]))
+
+
+def formers(path: BendPath, spans: Sequence, held_radii: Sequence[float],
+            wraps: Sequence[float], depth_mm: float, centre_mm: float) -> list[Former]:
+    """One disc per flat bend (pitch 0), in order from end A.
+
+    `spans` are the path's BendSpans (positions without trim), `held_radii`
+    the centreline radii held on the discs (mm), `wraps` the held angles (deg),
+    `centre_mm` the stock's centre along the neutral axis from end A (no trim)."""
+    arcs = [p for p in path.primitives() if isinstance(p, Arc3)]
+    out = []
+    for span, arc, r_held, wrap in zip(spans, arcs, held_radii, wraps):
+        if span.bend.pitch_mm:
+            continue
+        centre = np.asarray(arc.centre)
+        if span.start_mm <= centre_mm <= span.end_mm:
+            anchor = arc.point(arc.angle / 2)
+        elif span.end_mm < centre_mm:
+            anchor = np.asarray(arc.end)
+        else:
+            anchor = np.asarray(arc.start)
+        normal = (centre - anchor) / arc.radius
+        disc = anchor + normal * r_held
+        out.append(Former(f"F{len(out) + 1}", (span.index,), _xy(disc),
+                          r_held - depth_mm / 2, wrap))
+    return out
+
+
+def spacing(discs: Sequence[Former]) -> list[float]:
+    """Centre-to-centre distance of consecutive discs (mm)."""
+    return [math.dist(a.centre_mm, b.centre_mm) for a, b in zip(discs, discs[1:])]
+
+
+def jig_marks(path: BendPath, spans: Sequence, depth_mm: float, k_factor: float,
+              centre_mm: float) -> list[JigMark]:
+    """Stock centre, feed-gap ends and bend start/end marks (drawing plane)."""
+    marks = []
+    p, t = point_at(path, depth_mm, k_factor, centre_mm)
+    marks.append(JigMark("centre of stock", "centre", _xy(p), _xy(t)))
+    if path.gap_mm is not None:
+        marks.append(JigMark("feed gap, end A", "gap", _xy(np.asarray(path.origin)),
+                             _xy(np.asarray(path.heading) / np.linalg.norm(path.heading))))
+        marks.append(JigMark("feed gap, end B", "gap", _xy(path.end_point()),
+                             _xy(path.end_tangent())))
+    for span in spans:
+        _, t0 = point_at(path, depth_mm, k_factor, span.start_mm)
+        _, t1 = point_at(path, depth_mm, k_factor, span.end_mm)
+        marks.append(JigMark(f"bend {span.index} start", "bend-start",
+                             _xy(np.asarray(span.start_point)), _xy(t0)))
+        marks.append(JigMark(f"bend {span.index} end", "bend-end",
+                             _xy(np.asarray(span.end_point)), _xy(t1)))
+    return marks
+
+
+def end_shift(path: BendPath, released: Sequence[tuple[float, float] | None],
+              depth_mm: float, k_factor: float, centre_mm: float) -> float:
+    """How far the stock's ends move (mm) when each bend comes out at
+    `released[i]` = (centreline radius mm, angle deg) instead of the drawing's
+    (None: springs straight), with the stock's centre held in place."""
+    pieces = []
+    i = 0
+    for piece in path.pieces:
+        if isinstance(piece, Bend):
+            rel = released[i]
+            i += 1
+            if rel is None:
+                rn = neutral_radius(piece.radius_mm, depth_mm, k_factor)
+                pieces.append(Straight(math.radians(piece.angle_deg) * rn))
+            else:
+                pieces.append(Bend(rel[0], rel[1], piece.rotation_deg, piece.pitch_mm))
+        else:
+            pieces.append(piece)
+    other = BendPath(tuple(pieces), path.origin, path.heading, path.normal, path.gap_mm)
+    p0, t0 = point_at(path, depth_mm, k_factor, centre_mm)
+    p1, t1 = point_at(other, depth_mm, k_factor, centre_mm)
+    # planar rigid motion taking the other path's centre point and tangent onto the drawing's
+    rot = math.atan2(t0[1], t0[0]) - math.atan2(t1[1], t1[0])
+    c, s = math.cos(rot), math.sin(rot)
+    m = np.array([[c, -s], [s, c]])
+
+    def moved(q: np.ndarray) -> np.ndarray:
+        return m @ (np.asarray(q)[:2] - p1[:2]) + p0[:2]
+
+    ends0 = [np.asarray(path.origin)[:2], path.end_point()[:2]]
+    ends1 = [moved(np.asarray(other.origin)), moved(other.end_point())]
+    return max(float(np.linalg.norm(a - b)) for a, b in zip(ends0, ends1))

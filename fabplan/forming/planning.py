@@ -1,0 +1,253 @@
+"""The forming stage: Plan -> Plan with each element's `forming` filled in.
+
+For every element: the springback of each bend (former radius and overbend,
+or in a bender the radius it comes out at and the angle to bend to), the
+feasibility figures and findings, the jig's former discs and marks, the bend
+order and, for a bender, the pencil marks. A folded dipole or hairpin whose
+round end a bender cannot make is re-planned with square ends when the
+spacing allows it.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import logging
+import math
+
+import numpy as np
+
+from ..errors import Finding
+from .config import FormingSettings
+from .formers import end_shift, formers, jig_marks, spacing
+from .limits import bend_limits, limit_findings
+from .model import BendForming, ElementForming
+from .sequence import BendSite, bend_order, tool_marks
+from .springback import (BendState, SectionModel, calibrate_scale, final_for_held, law_for,
+                         section_model)
+
+__all__ = ["apply", "element_forming", "stock_model"]
+
+log = logging.getLogger("fabplan")
+
+# a finished radius within this of the shape's counts as the same (mm, fraction)
+_RADIUS_TOL_MM = 0.5
+_RADIUS_TOL_FRAC = 0.02
+_PARALLEL_SHAPES = ("folded-dipole", "hairpin")
+
+
+def stock_model(design) -> tuple[SectionModel, float, bool]:
+    """The springback model of the design's stock: (model, flow-stress factor,
+    calibrated?). A test bend in [forming.calibration] sets the factor."""
+    settings: FormingSettings = design.forming or FormingSettings()
+    stock = design.stock
+    law = law_for(stock.material, settings.model)
+    scale, calibrated = 1.0, False
+    cal = settings.calibration
+    if cal is not None:
+        scale = calibrate_scale(stock.profile, law, cal.former_radius_mm, cal.angle_held_deg,
+                                cal.angle_released_deg, stock.k_factor)
+        law, calibrated = law.scaled(scale), True
+    return section_model(stock.profile, law), scale, calibrated
+
+
+def _same_radius(a: float, b: float) -> bool:
+    return abs(a - b) <= max(_RADIUS_TOL_MM, _RADIUS_TOL_FRAC * b)
+
+
+def _held_states(model: SectionModel, radii: list[float], angles: list[float],
+                 depth: float, k: float) -> list[BendState]:
+    """Former method: hold radius and angle for each finished bend (all at once)."""
+    held = model.held_curvatures(1.0 / np.asarray(radii, dtype=float))
+    dn = depth * (k - 0.5)
+    out = []
+    for r, a, kh in zip(radii, angles, held):
+        rh = 1.0 / float(kh)
+        out.append(BendState(rh, a * (r + dn) / (rh + dn), r, a, model.c / rh))
+    return out
+
+
+def _square_ends(plan_element, design, e, model: SectionModel, settings: FormingSettings):
+    """In a bender: the element re-planned with square ends, or a finding why
+    its round end cannot be made. Returns (element, core findings or None, findings)."""
+    tool = settings.bender
+    p = e.spec.params
+    if tool is None or e.spec.shape not in _PARALLEL_SHAPES or p.end_style != "round":
+        return e, None, []
+    d = e.conductor_diameter_mm
+    depth = design.stock.profile.depth_mm
+    c = p.centre_spacing(d)
+    comes_out = final_for_held(model, tool.radius_mm, 90.0, depth, design.stock.k_factor)
+    r_out = comes_out.final_radius_mm
+    if math.isinf(r_out) or _same_radius(r_out, c / 2):
+        return e, None, []
+    name = e.name
+    if c / 2 > r_out and settings.square_ends:
+        spec = dataclasses.replace(e.spec, params=dataclasses.replace(
+            p, end_style="square", bend_radius_mm=r_out))
+        new, found = plan_element(design, spec)
+        note = Finding(
+            "square-ends-substituted", "warning",
+            f"the {c:.1f} mm centre spacing needs round ends of {c / 2:.1f} mm centreline "
+            f"radius but the {tool.radius_mm:.1f} mm bender makes {r_out:.1f} mm after "
+            f"springback: each end is planned as two 90-degree bends of {r_out:.1f} mm joined "
+            f"by a {c - 2 * r_out:.1f} mm straight, and every length is recomputed; set "
+            "[forming] square_ends = false to refuse this, or bend round a former", name)
+        return new, found, [note]
+    if c / 2 > r_out:
+        return e, None, [Finding(
+            "end-radius-not-tool-radius", "error",
+            f"the round ends need a {c / 2:.1f} mm centreline radius and the bender makes "
+            f"{r_out:.1f} mm: allow square ends ([forming] square_ends = true), bend round a "
+            "former ([forming] method = \"former\"), or use a tool of that radius", name)]
+    hints = [f"widen the centre spacing to at least {2 * r_out:.1f} mm",
+             f"use a bender whose finished radius is at most {c / 2:.1f} mm (centreline radius "
+             f"about {c / 2 * tool.radius_mm / r_out:.1f} mm)"]
+    if tool.radius_mm <= c / 2:
+        hints.append("use a softer temper (it springs back less, so the tool's "
+                     f"{tool.radius_mm:.1f} mm radius holds closer)")
+    hints.append("or bend the ends round a former disc ([forming] method = \"former\")")
+    return e, None, [Finding(
+        "spacing-too-narrow-for-tool", "error",
+        f"the {c:.1f} mm centre spacing needs ends of {c / 2:.1f} mm centreline radius, "
+        f"tighter than the {r_out:.1f} mm this bender ({tool.radius_mm:.1f} mm) makes after "
+        f"springback, so the ends cannot be made in it: " + "; ".join(hints), name)]
+
+
+def element_forming(design, e, model: SectionModel, settings: FormingSettings,
+                    scale: float, calibrated: bool) -> tuple[ElementForming, list[Finding]]:
+    """The forming figures of one element and the findings about them."""
+    stock = design.stock
+    profile, material = stock.profile, stock.material
+    depth, k = profile.depth_mm, stock.k_factor
+    name = e.name
+    findings: list[Finding] = []
+    rows = e.bends
+    radii = [b.centreline_radius_mm for b in rows]
+    angles = [b.angle_deg for b in rows]
+    tool = settings.bender if settings.method == "bender" else None
+    rho_e = model.elastic_limit_radius
+    notes: list[str] = []
+    if tool is None:
+        states = _held_states(model, radii, angles, depth, k) if rows else []
+        method = "former"
+        big = [b.index for b in rows if b.centreline_radius_mm > rho_e]
+        if big:
+            findings.append(Finding(
+                "radius-above-elastic-limit", "warning",
+                f"bends {', '.join(map(str, big))}: the finished radius is larger than the "
+                f"{rho_e:.0f} mm from which this stock springs straight back; it has to be "
+                "formed much tighter and the result is very sensitive to the metal's yield; "
+                "calibrate with a test bend ([forming.calibration])", name))
+    else:
+        method = "bender"
+        states = [final_for_held(model, tool.radius_mm, a, depth, k) for a in angles]
+        if tool.radius_mm >= rho_e:
+            findings.append(Finding(
+                "former-above-elastic-limit", "error",
+                f"the bender's {tool.radius_mm:.1f} mm centreline radius is over the "
+                f"{rho_e:.0f} mm above which this stock springs straight back: it leaves no "
+                "permanent bend; use a tighter tool", name))
+        off = [b.index for b, s in zip(rows, states)
+               if not math.isinf(s.final_radius_mm)
+               and not _same_radius(s.final_radius_mm, b.centreline_radius_mm)
+               and not b.pitch_mm]
+        if off and states and not math.isinf(states[0].final_radius_mm):
+            findings.append(Finding(
+                "radius-not-tool-radius", "warning",
+                f"bends {', '.join(map(str, off))}: the shape asks for other radii than the "
+                f"{states[0].final_radius_mm:.1f} mm the bender makes after springback (tool "
+                f"{tool.radius_mm:.1f} mm); set the shape's radius to "
+                f"{states[0].final_radius_mm:.1f} mm or bend these round a former", name))
+    bends = tuple(BendForming(
+        b.index, method, s.held_radius_mm - depth / 2, s.held_radius_mm, s.held_angle_deg,
+        s.held_angle_deg - b.angle_deg, s.final_radius_mm, b.angle_deg, s.outer_strain,
+        b.centreline_radius_mm) for b, s in zip(rows, states))
+    over = [b.index for b, r in zip(bends, rows)
+            if not r.pitch_mm and b.final_angle_deg <= 360 < b.overbend_deg]
+    if over:
+        findings.append(Finding(
+            "overbend-impossible", "error",
+            f"bends {', '.join(map(str, over))}: springback would need the stock wrapped more "
+            "than a full turn while held; leave a gap in the loop, or use a softer temper", name))
+
+    limits = [bend_limits(b.index, s.held_radius_mm, material, profile)
+              for b, s in zip(rows, states)]
+    ratio = {b.index: s.final_radius_mm / s.held_radius_mm for b, s in zip(rows, states)
+             if not math.isinf(s.final_radius_mm)}
+    findings += limit_findings(limits, material, profile, name, ratio)
+
+    centre = e.developed_length_mm / 2  # along the neutral axis from end A, no trim
+    sites = [BendSite(b.index, b.start_from_end_mm, b.end_from_end_mm, b.angle_deg,
+                      b.centreline_radius_mm, b.neutral_radius_mm, s.held_angle_deg)
+             for b, s in zip(rows, states)]
+    discs, gaps, marks, tmarks, splay = [], [], [], [], None
+    if tool is None:
+        order = [s.index for s in sorted(sites, key=lambda s: (
+            round(abs((s.start_mm + s.end_mm) / 2 - e.trim_mm - centre), 3), s.index))]
+        if e.planar and rows:
+            spans = e.path.spans(depth, k)
+            discs = formers(e.path, spans, [s.held_radius_mm for s in states],
+                            [s.held_angle_deg for s in states], depth, centre)
+            gaps = spacing(discs)
+            marks = jig_marks(e.path, spans, depth, k, centre)
+            if e.spec.shape in _PARALLEL_SHAPES:
+                released = []
+                for b in rows:
+                    kr = model.released_one(1.0 / b.centreline_radius_mm)
+                    if kr <= 0:
+                        released.append(None)
+                        continue
+                    dn = depth * (k - 0.5)
+                    rr = 1.0 / kr
+                    released.append((rr, b.angle_deg * (b.centreline_radius_mm + dn) / (rr + dn)))
+                splay = end_shift(e.path, released, depth, k, centre)
+        elif rows:
+            notes.append("the element is not flat: no flat jig; form the bends on a mandrel of "
+                         "the former radius")
+    else:
+        order, grips = bend_order(sites, e.cut_length_mm, tool.grip_mm)
+        tmarks = tool_marks(sites, order, grips, e.cut_length_mm, e.trim_mm + centre,
+                            tool.radius_mm, tool.reference, tool.stock_direction)
+        short = [t for t in tmarks if t.grip_mm < tool.grip_mm - 1e-9]
+        if short:
+            worst = min(short, key=lambda t: t.grip_mm)
+            findings.append(Finding(
+                "grip-too-short", "error",
+                f"bends {', '.join(str(t.bend_index) for t in short)}: in the best order "
+                f"({', '.join(map(str, order))}) bend {worst.bend_index} has only "
+                f"{worst.grip_mm:.1f} mm of straight stock beside it and the bender needs "
+                f"{tool.grip_mm:.1f} mm to grip; leave more trim at the ends ([shop] trim or "
+                "the element's trim), lengthen the straights, or make that bend round a former",
+                name))
+    if not calibrated:
+        notes.append("springback is a first estimate from the material's typical properties; "
+                     "a test bend in [forming.calibration] makes it this stock's")
+    extra = {"method": method, "model": settings.model,
+             "effective_yield_mpa": model.law.yield_mpa, "calibrated": calibrated,
+             "flow_stress_factor": scale}
+    return ElementForming(bends, tuple(discs), tuple(gaps), tuple(marks), tuple(tmarks),
+                          tuple(order), splay, rho_e, tuple(notes), tuple(limits),
+                          extra), findings
+
+
+def apply(plan):
+    """The forming stage (listed first in fabplan.plan.STEPS)."""
+    from ..plan import plan_element
+
+    design = plan.design
+    settings: FormingSettings = design.forming or FormingSettings()
+    model, scale, calibrated = stock_model(design)
+    elements = []
+    findings = list(plan.findings)
+    for e in plan.elements:
+        if settings.method == "bender":
+            e2, core, found = _square_ends(plan_element, design, e, model, settings)
+            if core is not None:
+                findings = [f for f in findings if f.element != e.name] + list(core)
+            e = e2
+            findings += found
+        forming, found = element_forming(design, e, model, settings, scale, calibrated)
+        findings += found
+        elements.append(dataclasses.replace(e, forming=forming))
+    log.debug("forming: %d elements", len(elements))
+    return dataclasses.replace(plan, elements=tuple(elements), findings=tuple(findings))
