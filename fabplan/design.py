@@ -82,6 +82,7 @@ class Design:
 # its settings object (or None when its tables are absent).
 EXTENSIONS: dict[str, str] = {
     "forming": "fabplan.forming.config:read_forming",
+    "electrical": "fabplan.em.config:read_electrical",
 }
 
 

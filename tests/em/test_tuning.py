@@ -1,0 +1,309 @@
+"""Reading a sweep, tuning the governing length, the measured mode, and
+rewriting the design file.
+
+Most tests use a stand-in model whose behaviour is known in closed form (a
+series RLC whose resonance follows the element's total length), so that the
+tuning logic is checked against exact answers; the end-to-end tests at the
+bottom run the real method-of-moments solver.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+import tomllib
+from types import SimpleNamespace
+
+import numpy as np
+import pytest
+
+from fabplan.design import parse_design
+from fabplan.em import planning, tuning
+from fabplan.em.matching import C0_M_S, MatchChain, Transformer
+from fabplan.errors import DesignError
+from fabplan.plan import make_plan
+
+X0 = 600.0  # reactance slope of the stand-in (ohm)
+K = 0.96  # stand-in's total length is K wavelengths at resonance
+
+
+class RLC:
+    """Z = R + j X0 (f/f0 - f0/f): a series RLC resonator (Pozar, Microwave
+    Engineering, sec. 6.1), f0 set by the element's total length (mm)."""
+
+    unknowns = 7
+
+    def __init__(self, total_mm: float, r_ohm: float = 200.0) -> None:
+        self.f0 = K * C0_M_S / (total_mm / 1000)
+        self.r = r_ohm
+        self.calls = 0
+
+    def impedance(self, f):
+        self.calls += 1
+        return complex(self.r, X0 * (f / self.f0 - self.f0 / f))
+
+    def sweep(self, f):
+        return np.array([self.impedance(x) for x in np.atleast_1d(f)], dtype=complex)
+
+    def solve(self, f):
+        return SimpleNamespace(efficiency=0.99, z_in=self.impedance(f))
+
+
+def total_length(path) -> float:
+    return path.centreline_length() + path.gap_mm
+
+
+def rlc_factory(plan, element, settings, f_max_hz, params=None):
+    path, _ = planning.element_path(plan, element, params)
+    return RLC(total_length(path))
+
+
+DESIGN = """
+[project]
+name = "tuning test"
+
+[stock]
+diameter = "4 mm"
+material = "cu-c11000-annealed"
+
+[shop]
+units = "{units}"
+trim = "10 mm"
+
+[[element]]
+name = "fd"
+shape = "folded-dipole"   # a comment that must survive
+side = "{side}"
+centre_spacing = "40 mm"
+feed_gap = "12 mm"
+
+[electrical]
+target = "146 MHz"
+{extra}
+
+[electrical.matching]
+kind = "transformer"
+ratio = 4
+system_impedance = 50
+"""
+
+
+def design(side="950 mm", units="mm", extra=""):
+    text = DESIGN.format(side=side, units=units, extra=extra)
+    return text, parse_design(text, "t.toml")
+
+
+def core_plan(d):
+    return make_plan(dataclasses.replace(d, electrical=None))
+
+
+# -- reading a sweep ---------------------------------------------------------------
+def test_analyse_finds_least_swr_resonance_and_bandwidth_of_a_series_rlc():
+    model = RLC(2000.0)
+    chain = MatchChain(200.0, 50.0, Transformer(4.0))
+    f0 = model.f0
+    freqs = np.linspace(0.8 * f0, 1.2 * f0, 401)
+    result, extra = planning.analyse(model, chain, freqs)
+    assert result.min_swr_hz == pytest.approx(f0, rel=1e-5)
+    assert result.min_swr == pytest.approx(1.0, abs=1e-6)
+    assert result.resonance_hz == pytest.approx(f0, rel=1e-7)
+    # source: series resonator (Pozar, Microwave Engineering, sec. 6.1): Z/4 = 50 + jX/4
+    # against 50 ohm has SWR 2 where |X/4| = 100/sqrt(8); with X = X0 (u - 1/u) the band
+    # is f0 (u+ - u-) = f0 * X/X0 exactly
+    x2 = 4 * 100 / math.sqrt(8)
+    assert result.bandwidth_hz["2"] == pytest.approx(f0 * x2 / X0, rel=2e-3)
+    x15 = 4 * 100 * 0.2 / math.sqrt(1 - 0.04)  # |Gamma| = 0.2 at SWR 1.5
+    assert result.bandwidth_hz["1.5"] == pytest.approx(f0 * x15 / X0, rel=2e-3)
+    lo, hi = extra["bandwidth_edges_hz"]["2"]
+    assert lo < f0 < hi
+    assert not extra["least_swr_at_sweep_end"]
+
+
+def test_analyse_flags_least_swr_at_the_end_of_the_sweep():
+    model = RLC(2000.0)
+    chain = MatchChain(200.0, 50.0, Transformer(4.0))
+    freqs = np.linspace(0.8 * model.f0, 0.95 * model.f0, 31)
+    result, extra = planning.analyse(model, chain, freqs)
+    assert extra["least_swr_at_sweep_end"]
+    assert result.min_swr_hz == freqs[-1]
+    assert result.resonance_hz is None
+    assert result.bandwidth_hz == {"1.5": None, "2": None}
+
+
+# -- the stage with a stand-in model ---------------------------------------------------
+def test_planning_stage_fills_every_fed_element_and_the_plan():
+    text, d = design()
+    plan = planning.apply(core_plan(d), settings=d.electrical, factory=rlc_factory)
+    e = plan.elements[0]
+    assert e.electrical is not None and plan.electrical is not None
+    f0 = rlc_factory(plan, e, d.electrical, 0).f0
+    assert e.electrical.sweep.min_swr_hz == pytest.approx(f0, rel=1e-5)
+    codes = {f.code for f in plan.findings}
+    off = abs(f0 / 146e6 - 1)
+    assert ("em-off-target" in codes) == (off > 0.005)
+    out: dict = {}
+    e.electrical.extend_json(out)
+    assert out["electrical"]["min_swr_hz"] == pytest.approx(f0, rel=1e-5)
+    assert len(out["electrical"]["points"]) == 81
+    txt = e.electrical.text("mm", 32)
+    assert "least SWR" in txt and "+- " in txt and "(0.5 %)" in txt
+    ptxt = plan.electrical.text("mm", 32)
+    assert "RF exposure" in ptxt and "surroundings" in ptxt and "+-0.5 %" in ptxt
+
+
+def test_a_model_that_breaks_its_limits_becomes_a_finding():
+    from fabplan.errors import FabplanError
+
+    def refusing(plan, element, settings, f_max_hz, params=None):
+        raise FabplanError("the wire is too thick", field="radius_mm", value=99)
+
+    text, d = design()
+    plan = planning.apply(core_plan(d), settings=d.electrical, factory=refusing)
+    assert plan.elements[0].electrical is None
+    [f] = [f for f in plan.findings if f.code == "em-model-limits"]
+    assert "too thick" in f.message and f.severity == "warning" and f.element == "fd"
+
+
+def test_released_radii_replace_the_design_radii():
+    from fabplan.forming.model import BendForming, ElementForming
+
+    text, d = design()
+    plan = core_plan(d)
+    e = dataclasses.replace(plan.elements[0], forming=None)
+    bends = tuple(BendForming(i, "former", 18.0, 20.0, 185.0, 5.0, 21.5, 180.0, 0.1)
+                  for i in (1, 2))
+    e2 = dataclasses.replace(e, forming=ElementForming(bends))
+    path, released = planning.element_path(plan, e2)
+    assert released and [b.radius_mm for b in path.bends] == [21.5, 21.5]
+    assert [b.radius_mm for b in e.path.bends] == [20.0, 20.0]
+    plain, released = planning.element_path(plan, e)
+    assert not released and plain is e.path
+
+
+# -- tuning --------------------------------------------------------------------------
+@pytest.mark.parametrize("tune_for", ["least-swr", "resonance"])
+def test_tune_finds_the_exact_length_for_the_stand_in(tune_for):
+    text, d = design()
+    plan = core_plan(d)
+    e = plan.elements[0]
+    target = 146e6
+    r = tuning.tune(plan, e, d.electrical, target, tune_for=tune_for, factory=rlc_factory)
+    # closed form: total length K c / f; a folded dipole's total (2 x side + the ends + the
+    # gap) changes by twice the change in side
+    old_total = total_length(e.path)
+    need = K * C0_M_S / target * 1000
+    assert r.new_value_mm == pytest.approx(950.0 + (need - old_total) / 2, abs=0.01)
+    assert r.new_hz == pytest.approx(target, rel=1e-4)
+    assert r.iterations <= 4
+    # the cut length changes by twice the side; the centre mark stays at the centre
+    assert r.new_cut_mm - r.old_cut_mm == pytest.approx(2 * (r.new_value_mm - 950.0), abs=1e-6)
+    centre = next(m for m in r.marks if m.label == "centre of stock")
+    assert centre.old_from_centre_mm == centre.new_from_centre_mm == 0.0
+    ends = [m for m in r.marks if m.label.startswith("end")]
+    for m in ends:  # the ends move out by half the change in cut length each
+        assert abs(m.new_from_centre_mm) - abs(m.old_from_centre_mm) == pytest.approx(
+            (r.new_cut_mm - r.old_cut_mm) / 2, abs=1e-6)
+
+
+def test_tune_rejects_a_length_that_cannot_be_built():
+    text, d = design(side="950 mm")
+    plan = core_plan(d)
+    from fabplan.errors import FabplanError
+
+    with pytest.raises(FabplanError, match="cannot be built"):
+        # 100 x the frequency: the first step's side would be shorter than the feed gap
+        tuning.tune(plan, plan.elements[0], d.electrical, 14600e6, factory=rlc_factory)
+
+
+def test_proportional_rule():
+    # common practice, no source: length scales inversely with frequency;
+    # 1000 mm measured at 146 MHz, wanted at 144 MHz: 1000 x 146/144 = 1013.889 mm
+    assert tuning.proportional_length(1000.0, 146e6, 144e6) == pytest.approx(1013.8889, abs=1e-4)
+    assert tuning.proportional_length(500.0, 440e6, 440e6) == 500.0
+
+
+def test_measured_mode_on_a_synthetic_case():
+    """The article behaves exactly like the model; the target is where the model
+    puts a 1 % longer side. The model-sensitivity correction must recover that
+    side to first order; the proportional rule, which also scales the ends and the
+    gap that do not change, must miss by more."""
+    text, d = design()
+    plan = core_plan(d)
+    e = plan.elements[0]
+    measured = rlc_factory(plan, e, d.electrical, 0).f0
+    side_star = 950.0 * 1.01
+    params = tuning.SHAPES[e.spec.shape].with_governing(e.spec.params, side_star)
+    target = rlc_factory(plan, e, d.electrical, 0, params).f0
+    r = tuning.from_measurement(plan, e, d.electrical, measured, target, factory=rlc_factory)
+    want = side_star - 950.0
+    assert r.change_model_mm == pytest.approx(want, rel=0.01)
+    assert abs(r.change_proportional_mm - want) > abs(r.change_model_mm - want)
+    assert r.change_proportional_mm == pytest.approx(950.0 * (measured / target - 1))
+    assert r.sensitivity_hz_per_mm < 0
+    assert r.trust == "model"
+    assert r.cut_change_model_mm == pytest.approx(2 * r.change_model_mm, abs=1e-6)
+
+
+def test_measured_far_from_the_model_prefers_the_proportional_rule():
+    text, d = design()
+    plan = core_plan(d)
+    e = plan.elements[0]
+    model_f = rlc_factory(plan, e, d.electrical, 0).f0
+    r = tuning.from_measurement(plan, e, d.electrical, model_f * 1.06, 146e6,
+                                factory=rlc_factory)
+    assert r.trust == "proportional" and "differs from the model" in r.advice
+
+
+# -- rewriting the design ------------------------------------------------------------------
+@pytest.mark.parametrize("units, expect", [("mm", '"937.125 mm"'), ("in", '"36.8947 in"')])
+def test_rewrite_replaces_only_the_governing_value(units, expect):
+    text, d = design(units=units)
+    new_params = dataclasses.replace(d.elements[0].params,
+                                     length_mm=937.125 if units == "mm" else 36.8947 * 25.4)
+    new_text, changes = tuning.rewrite_design(text, d, "fd", new_params)
+    assert list(changes) == ["side"]
+    old_lines, new_lines = text.split("\n"), new_text.split("\n")
+    diff = [(a, b) for a, b in zip(old_lines, new_lines) if a != b]
+    assert len(old_lines) == len(new_lines) and len(diff) == 1
+    assert diff[0][1] == f"side = {expect}"
+    assert "# a comment that must survive" in new_text
+    assert tomllib.loads(new_text)["element"][0]["side"] == expect.strip('"')
+
+
+def test_rewrite_scales_a_loop_given_by_its_sides():
+    text = """[stock]
+diameter = "3 mm"
+material = "cu-c11000-annealed"
+
+[shop]
+units = "mm"
+
+[[element]]
+name = "quad"
+shape = "rect-loop"
+width = "500 mm"   # across
+height = "250 mm"
+corner_radius = "20 mm"
+feed_gap = "10 mm"
+"""
+    d = parse_design(text)
+    spec = tuning.SHAPES["rect-loop"]
+    key, perimeter = spec.governing(d.elements[0].params)
+    assert key == "perimeter" and perimeter == pytest.approx(1500.0)
+    new_params = spec.with_governing(d.elements[0].params, 1530.0)
+    new_text, changes = tuning.rewrite_design(text, d, "quad", new_params)
+    assert changes == {"width": "510.000 mm", "height": "255.000 mm"}
+    assert 'width = "510.000 mm"   # across' in new_text
+
+
+def test_rewrite_refuses_what_it_cannot_find():
+    text = """element = [{ name = "fd", shape = "folded-dipole", side = "900 mm", spacing = "40 mm" }]
+
+[stock]
+diameter = "3 mm"
+material = "cu-c11000-annealed"
+"""
+    d = parse_design(text)
+    p = dataclasses.replace(d.elements[0].params, length_mm=910.0)
+    with pytest.raises(DesignError, match="by hand"):
+        tuning.rewrite_design(text, d, "fd", p)
