@@ -1,0 +1,180 @@
+"""The [electrical] table, and `fabplan sweep` / `fabplan tune` run as a user runs them."""
+
+from __future__ import annotations
+
+import json
+import math
+
+import pytest
+
+from fabplan.design import parse_design
+from fabplan.em.config import MAX_SWEEP_POINTS, parse_power
+from fabplan.em.matching import CoaxBalun, Direct, Transformer
+from fabplan.errors import DesignError
+
+HEAD = """
+[project]
+name = "em cli test"
+
+[stock]
+catalogue = "acr-1/4"
+
+[shop]
+units = "in"
+
+[[element]]
+name = "70 cm"
+shape = "folded-dipole"
+side = "{side}"
+centre_spacing = "1 1/4 in"
+feed_gap = "1/2 in"
+"""
+
+ELECTRICAL = """
+[electrical]
+target = "440 MHz"
+{extra}
+
+[electrical.matching]
+kind = "coax-balun"
+system_impedance = 50
+velocity_factor = 0.66
+"""
+
+
+def text(extra: str = "", side: str = "11 1/2 in", electrical: bool = True) -> str:
+    return HEAD.format(side=side) + (ELECTRICAL.format(extra=extra) if electrical else "")
+
+
+# -- the [electrical] table ----------------------------------------------------------------
+def test_absent_table_gives_none():
+    assert parse_design(text(electrical=False)).electrical is None
+
+
+def test_defaults_follow_the_target_and_the_matching():
+    s = parse_design(text()).electrical
+    assert s.target_hz == 440e6
+    assert (s.sweep_from_hz, s.sweep_to_hz) == pytest.approx((396e6, 484e6))
+    assert len(s.frequencies()) == 81
+    assert isinstance(s.chain.matching, CoaxBalun)
+    assert s.chain.matching.half_wave_hz == 440e6
+    assert s.chain.matching.z0_ohm == 50.0  # the loop's cable defaults to the system's
+    assert s.reference_ohm == 200.0  # what a 4:1 device expects into 50 ohm
+    assert s.ground == "free-space" and s.ground_z_mm() is None
+    assert "real-ground model is not implemented" in s.ground_text()
+    assert s.tune_for == "least-swr"
+
+
+def test_full_table():
+    extra = """sweep = { from = "430 MHz", to = "450 MHz", step = "0.5 MHz" }
+reference_impedance = 300
+tune_for = "resonance"
+ground = "perfect"
+ground_height = "2 m"
+resistivity = 1.8e-8
+power = "50 W"
+
+[electrical.feed_line]
+length = "10 m"
+impedance = 50
+velocity_factor = 0.85
+loss_db_per_100ft = 3.0
+loss_frequency = "400 MHz"
+"""
+    s = parse_design(text(extra)).electrical
+    f = s.frequencies()
+    assert len(f) == 41 and f[0] == 430e6 and f[-1] == pytest.approx(450e6)
+    assert s.reference_ohm == 300.0 and s.tune_for == "resonance"
+    assert s.ground_z_mm() == -2000.0 and "perfect ground" in s.ground_text()
+    assert s.resistivity_ohm_m == 1.8e-8 and s.power_w == 50.0
+    fl = s.chain.feed_line
+    assert fl.length_mm == 10_000.0 and fl.velocity_factor == 0.85
+    # 3 dB per 100 ft at 400 MHz over 10 m: 3 x 10 / 30.48 = 0.984 dB
+    assert fl.matched_loss_db(400e6) == pytest.approx(3 * 10 / 30.48)
+
+
+def test_transformer_and_no_matching():
+    s = parse_design(text().replace('kind = "coax-balun"', 'kind = "transformer"\nratio = 9')
+                     .replace("velocity_factor = 0.66\n", "")).electrical
+    assert s.chain.matching == Transformer(9.0) and s.reference_ohm == 450.0
+    s = parse_design(text().replace('kind = "coax-balun"', 'kind = "none"')
+                     .replace("velocity_factor = 0.66\n", "")).electrical
+    assert isinstance(s.chain.matching, Direct) and s.reference_ohm == 50.0
+
+
+@pytest.mark.parametrize("extra, match", [
+    ('sweep = { from = "450 MHz", to = "430 MHz" }', "must be above"),
+    ('sweep = { from = "1 MHz", to = "1000 MHz", step = "1 kHz" }', str(MAX_SWEEP_POINTS)),
+    ('sweep = { from = "430 MHz", to = "450 MHz", stepp = "1 MHz" }', "did you mean 'step'"),
+    ('ground = "perfect"', "give ground_height"),
+    ('ground = "earth"', "must be one of: free-space, perfect"),
+    ('ground_height = "2 m"', "real-ground model is not implemented"),
+    ("reference_impedance = -50", "greater than 0"),
+    ('reference_impedance = "300 ohm"', "expected a number"),
+    ('power = "50"', "power with its unit"),
+    ("resistivity = 1e-8\nperfect_conductor = true", "not both"),
+    ('taget = "440 MHz"', "did you mean 'target'"),
+    ('tune_for = "swr"', "must be one of"),
+])
+def test_bad_values_name_their_field(extra, match):
+    with pytest.raises(DesignError, match=match):
+        parse_design(text(extra))
+
+
+def test_bad_matching_values():
+    with pytest.raises(DesignError, match="electrical.matching.velocity_factor"):
+        parse_design(text().replace("velocity_factor = 0.66", "velocity_factor = 1.5"))
+    with pytest.raises(DesignError, match="loss_frequency"):
+        parse_design(text().replace("velocity_factor = 0.66",
+                                    "velocity_factor = 0.66\nloss_db_per_100m = 10"))
+    with pytest.raises(DesignError, match="must be one of: none, transformer, coax-balun"):
+        parse_design(text().replace('kind = "coax-balun"', 'kind = "balun"'))
+    with pytest.raises(DesignError, match="target frequency or a sweep"):
+        parse_design(text().replace('target = "440 MHz"', ""))
+
+
+def test_power_strings():
+    assert parse_power("1.5 kW", "p") == 1500.0
+    assert parse_power("500 mW", "p") == 0.5
+    with pytest.raises(DesignError, match="positive"):
+        parse_power("0 W", "p")
+
+
+# -- the command line: errors ---------------------------------------------------------------
+def _one_line_error(proc) -> str:
+    assert proc.returncode == 2, proc.stderr
+    lines = proc.stderr.strip().splitlines()
+    assert len(lines) == 1 and lines[0].startswith("fabplan: error:"), proc.stderr
+    assert "Traceback" not in proc.stderr and proc.stdout == ""
+    return lines[0]
+
+
+def test_sweep_without_electrical_table_is_a_one_line_error(run_cli, write_design):
+    p = write_design(text(electrical=False))
+    for args in (("sweep", p), ("tune", p, "--target", "440 MHz")):
+        line = _one_line_error(run_cli(*args))
+        assert "no [electrical] table" in line
+
+
+@pytest.mark.parametrize("args, match", [
+    (("sweep", "{p}", "--from", "420"), "--from = '420': expected a frequency"),
+    (("sweep", "{p}", "--from", "430 MHz", "--to", "420 MHz"), "must be above"),
+    (("sweep", "{p}", "--step", "-1 MHz"), "--step"),
+    (("tune", "{p}", "--target", "440 MHz furlongs"), "--target"),
+    (("tune", "{p}", "--measured", "0 MHz"), "positive frequency"),
+    (("tune", "{p}", "--measured", "436 MHz", "-o", "{out}"), "--output"),
+])
+def test_bad_options_are_one_line_errors(run_cli, write_design, tmp_path, args, match):
+    p = write_design(text())
+    out = tmp_path / "new.toml"
+    line = _one_line_error(run_cli(*(a.format(p=p, out=out) for a in args)))
+    assert match in line
+    assert not out.exists()
+
+
+def test_existing_output_is_not_replaced(run_cli, write_design, tmp_path):
+    p = write_design(text())
+    out = tmp_path / "new.toml"
+    out.write_text("keep", encoding="utf-8")
+    line = _one_line_error(run_cli("tune", p, "-o", out))
+    assert "already exists" in line and out.read_text() == "keep"
