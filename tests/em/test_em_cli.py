@@ -178,3 +178,17 @@ def test_existing_output_is_not_replaced(run_cli, write_design, tmp_path):
     out.write_text("keep", encoding="utf-8")
     line = _one_line_error(run_cli("tune", p, "-o", out))
     assert "already exists" in line and out.read_text() == "keep"
+
+
+def test_the_templates_commented_electrical_table_is_valid():
+    from importlib import resources
+
+    t = resources.files("fabplan").joinpath("templates", "folded-dipole.toml").read_text("utf-8")
+    head, tail = t.split("# Electrical check (optional)")
+    body = "\n".join(line[2:] if line.startswith("# ") else ("" if line.strip() == "#" else line)
+                     for line in tail.split("\n")[2:])
+    body = body.replace('ground_height = "2 m"', "")  # free space: no height
+    s = parse_design(head + body).electrical
+    assert isinstance(s.chain.matching, CoaxBalun) and s.chain.feed_line is not None
+    assert s.target_hz == 440e6 and s.reference_ohm == 200.0 and s.power_w == 50.0
+    assert not math.isnan(s.chain.feed_line.matched_loss_db(440e6))
