@@ -34,6 +34,9 @@ Progress = Callable[[int], None]
 ModelFactory = Callable[..., Any]
 SWR_LEVELS = ("1.5", "2")
 CHUNK = 8  # frequencies per solver call between progress reports
+# a minimum of SWR is "broad" when it rises by less than BROAD_SWR within +-BROAD_FRAC
+BROAD_FRAC = 0.01
+BROAD_SWR = 0.02
 
 
 # -- the model of one element ------------------------------------------------
@@ -252,6 +255,16 @@ def _findings(name: str, settings: ElectricalSettings, r: SweepResult,
                                f"% from the {t / 1e6:.3f} MHz target (more than the "
                                f"+-{100 * UNCERTAINTY_FRAC:.1f} % uncertainty): run `fabplan tune` "
                                "for the length that puts it on target", name))
+    f, sw = np.asarray(r.freq_hz), np.asarray(r.swr_system)
+    near = [r.min_swr_hz * (1 - BROAD_FRAC), r.min_swr_hz * (1 + BROAD_FRAC)]
+    if (f[0] <= near[0] and near[1] <= f[-1]
+            and np.all(np.interp(near, f, sw) - r.min_swr < BROAD_SWR)):
+        out.append(Finding("em-broad-swr-minimum", "info",
+                           f"the SWR through the matching stays within {BROAD_SWR:g} of its "
+                           f"least value ({r.min_swr:.2f}) from {near[0] / 1e6:.1f} to "
+                           f"{near[1] / 1e6:.1f} MHz: the frequency of least SWR is poorly "
+                           "defined and hard to measure; tune for resonance (tune_for = "
+                           "\"resonance\") or judge by the middle of the SWR 1.5 band", name))
     if r.min_swr > 2:
         out.append(Finding("em-high-swr", "warning",
                            f"the least SWR through the matching is {r.min_swr:.2f}: the matching "

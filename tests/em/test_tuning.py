@@ -33,14 +33,13 @@ class RLC:
 
     unknowns = 7
 
-    def __init__(self, total_mm: float, r_ohm: float = 200.0) -> None:
+    def __init__(self, total_mm: float, r_ohm: float = 200.0, x0_ohm: float = X0) -> None:
         self.f0 = K * C0_M_S / (total_mm / 1000)
         self.r = r_ohm
-        self.calls = 0
+        self.x0 = x0_ohm
 
     def impedance(self, f):
-        self.calls += 1
-        return complex(self.r, X0 * (f / self.f0 - self.f0 / f))
+        return complex(self.r, self.x0 * (f / self.f0 - self.f0 / f))
 
     def sweep(self, f):
         return np.array([self.impedance(x) for x in np.atleast_1d(f)], dtype=complex)
@@ -128,6 +127,19 @@ def test_analyse_flags_least_swr_at_the_end_of_the_sweep():
     assert result.min_swr_hz == freqs[-1]
     assert result.resonance_hz is None
     assert result.bandwidth_hz == {"1.5": None, "2": None}
+
+
+@pytest.mark.parametrize("x0, broad", [(X0, False), (40.0, True)])
+def test_a_broad_shallow_minimum_is_pointed_out(x0, broad):
+    # SWR 1 + 0.02 within +-1 %: with Z/4 = 50 + j x0 (u - 1/u)/4 and u = 1.01,
+    # x0 = 600 gives SWR 1.06 (sharp), x0 = 40 gives 1.004 (broad)
+    model = RLC(2000.0, x0_ohm=x0)
+    chain = MatchChain(200.0, 50.0, Transformer(4.0))
+    freqs = np.linspace(0.9 * model.f0, 1.1 * model.f0, 81)
+    result, extra = planning.analyse(model, chain, freqs)
+    settings = SimpleNamespace(target_hz=None)
+    codes = [f.code for f in planning._findings("x", settings, result, extra)]
+    assert ("em-broad-swr-minimum" in codes) == broad
 
 
 # -- the stage with a stand-in model ---------------------------------------------------
