@@ -6,8 +6,8 @@ the radius the metal sees. Findings carry stable codes:
 
     bend-too-tight          error    below the minimum radius for material/temper/profile
     bend-tight              warning  inside the rule's range: test-bend first
-    outer-strain-exceeds-elongation  error  outer fibre strain above the elongation at break
-    outer-strain-high       warning  outer fibre strain above 3/4 of the elongation
+    outer-strain-exceeds-elongation  warning  outer fibre strain above the elongation at break
+    outer-strain-high       info     outer fibre strain above 3/4 of the elongation
     mandrel-needed          warning  tube bend tighter than 1.5 D of bend
     kink-risk               warning  thin-wall tube (wall factor >= 15) tighter than 3 D
     wall-thins              warning  outside wall thins by more than 20 % (upper bound)
@@ -218,16 +218,17 @@ def limit_findings(limits: list[BendLimits], material: Material, profile: Profil
         worst = max(over, key=lambda x: x.outer_strain)
         need = profile.depth_mm / (2 * worst.elongation)
         out.append(Finding(
-            "outer-strain-exceeds-elongation", "error",
+            "outer-strain-exceeds-elongation", "warning",
             f"{_bends(over)}: outer-fibre strain {100 * worst.outer_strain:.0f} % exceeds the "
-            f"{100 * worst.elongation:.0f} % elongation of {material.name}: it will crack; use a "
-            f"centreline radius over {finished(worst, need):.1f} mm or a softer temper",
-            element))
+            f"{100 * worst.elongation:.0f} % elongation at break of {material.name}: the outside "
+            "may crack (a bend spreads the strain, so it often survives a little more than the "
+            "tensile elongation; make a test bend); to stay within it use a centreline radius "
+            f"over {finished(worst, need):.1f} mm or a softer temper", element))
     high = [x for x in limits if x not in over and x.outer_strain > 0.75 * x.elongation]
     if high:
         worst = max(high, key=lambda x: x.outer_strain)
         out.append(Finding(
-            "outer-strain-high", "warning",
+            "outer-strain-high", "info",
             f"{_bends(high)}: outer-fibre strain {100 * worst.outer_strain:.0f} % is near the "
             f"{100 * worst.elongation:.0f} % elongation of {material.name}; expect surface "
             "cracking; use a larger radius or a softer temper", element))

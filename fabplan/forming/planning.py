@@ -114,8 +114,10 @@ def _square_ends(plan_element, design, e, model: SectionModel, settings: Forming
 
 
 def element_forming(design, e, model: SectionModel, settings: FormingSettings,
-                    scale: float, calibrated: bool) -> tuple[ElementForming, list[Finding]]:
-    """The forming figures of one element and the findings about them."""
+                    scale: float, calibrated: bool, ends_reported: bool = False
+                    ) -> tuple[ElementForming, list[Finding]]:
+    """The forming figures of one element and the findings about them
+    (`ends_reported`: the ends' radius was already the subject of a finding)."""
     stock = design.stock
     profile, material = stock.profile, stock.material
     depth, k = profile.depth_mm, stock.k_factor
@@ -151,7 +153,7 @@ def element_forming(design, e, model: SectionModel, settings: FormingSettings,
                if not math.isinf(s.final_radius_mm)
                and not _same_radius(s.final_radius_mm, b.centreline_radius_mm)
                and not b.pitch_mm]
-        if off and states and not math.isinf(states[0].final_radius_mm):
+        if off and not ends_reported and not math.isinf(states[0].final_radius_mm):
             findings.append(Finding(
                 "radius-not-tool-radius", "warning",
                 f"bends {', '.join(map(str, off))}: the shape asks for other radii than the "
@@ -241,12 +243,15 @@ def apply(plan):
     findings = list(plan.findings)
     for e in plan.elements:
         if settings.method == "bender":
-            e2, core, found = _square_ends(plan_element, design, e, model, settings)
+            e2, core, ends = _square_ends(plan_element, design, e, model, settings)
             if core is not None:
                 findings = [f for f in findings if f.element != e.name] + list(core)
             e = e2
-            findings += found
-        forming, found = element_forming(design, e, model, settings, scale, calibrated)
+            findings += ends
+        else:
+            ends = []
+        forming, found = element_forming(design, e, model, settings, scale, calibrated,
+                                         bool(ends))
         findings += found
         elements.append(dataclasses.replace(e, forming=forming))
     log.debug("forming: %d elements", len(elements))
