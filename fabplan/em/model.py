@@ -182,8 +182,8 @@ class PlanElectrical:
         if self.balun_loop_cut_length_mm is not None:
             lines.append(f"Cut list: balun loop of {self.balun_cable}, "
                          f"{format_length(self.balun_loop_cut_length_mm, unit, den)} "
-                         "(half an electrical wavelength x velocity factor; measured between "
-                         "the shield ends, check the cable's velocity factor)")
+                         "(half an electrical wavelength x velocity factor, between its two "
+                         "connection points; check the cable's velocity factor first)")
         if self.feed_line_loss_db is not None:
             lines.append(f"Feed line matched loss: {self.feed_line_loss_db:.2f} dB")
         lines.append(f"Predicted frequencies carry about +-{100 * self.uncertainty_frac:.1f} % "

@@ -60,22 +60,27 @@ def element_path(plan, element, params: Any = None) -> tuple[BendPath, bool]:
 
     `params` (the shape's params, e.g. with a new governing length) rebuilds
     the path; None uses the element's own. Where the forming stage has set the
-    released radii, each bend takes its final radius. Returns (path, released).
+    released radii, each bend takes its final radius (for rebuilt params, its
+    own radius scaled by the element's final/design ratio for that bend, so a
+    loop whose radius is the tuned length keeps its springback figure).
+    Returns (path, released).
     """
     if params is None:
         path = element.path
     else:
         path = SHAPES[element.spec.shape].build(params, plan.stock.profile.outer_diameter_mm)
     forming = element.forming
-    if forming is None:
+    design_radii = [b.radius_mm for b in element.path.bends]
+    if forming is None or len(path.bends) != len(design_radii):
         return path, False
-    finals = {b.index: b.final_radius_mm for b in forming.bends}
+    ratios = {b.index: b.final_radius_mm / design_radii[b.index - 1] for b in forming.bends
+              if 1 <= b.index <= len(design_radii)}
     pieces = []
     index = 0
     for piece in path.pieces:
         if isinstance(piece, Bend):
             index += 1
-            radius = finals.get(index, piece.radius_mm)
+            radius = piece.radius_mm * ratios.get(index, 1.0)
             piece = dataclasses.replace(piece, radius_mm=radius)
         pieces.append(piece)
     return dataclasses.replace(path, pieces=tuple(pieces), _cache={}), True
@@ -247,11 +252,18 @@ def _findings(name: str, settings: ElectricalSettings, r: SweepResult,
                            "MHz): the true minimum lies outside it; widen [electrical] sweep",
                            name))
     t = settings.target_hz
-    if t is not None:
-        off = r.min_swr_hz / t - 1
+    by_resonance = getattr(settings, "tune_for", "least-swr") == "resonance"
+    f_hz = r.resonance_hz if by_resonance else r.min_swr_hz
+    what = "resonance" if by_resonance else "least SWR"
+    if t is not None and f_hz is None:
+        out.append(Finding("em-off-target", "warning",
+                           "no resonance (reactance zero) in the sweep: the element is far from "
+                           "the target or the sweep too narrow; widen [electrical] sweep", name))
+    elif t is not None:
+        off = f_hz / t - 1
         if abs(off) > UNCERTAINTY_FRAC:
             out.append(Finding("em-off-target", "warning",
-                               f"least SWR falls at {r.min_swr_hz / 1e6:.3f} MHz, {100 * off:+.2f} "
+                               f"{what} falls at {f_hz / 1e6:.3f} MHz, {100 * off:+.2f} "
                                f"% from the {t / 1e6:.3f} MHz target (more than the "
                                f"+-{100 * UNCERTAINTY_FRAC:.1f} % uncertainty): run `fabplan tune` "
                                "for the length that puts it on target", name))

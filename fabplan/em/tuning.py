@@ -166,7 +166,7 @@ class _Evaluator:
                                f"{problems[0].message}", field="tune")
         # the sweep's top frequency sets the mesh, as in the plan's own check, so the
         # tuned length gives the same answer there
-        f_max = max(self.settings.sweep_to_hz, expect_hz * (1 + 3 * span_frac))
+        f_max = max(self.settings.sweep_to_hz, expect_hz * (1 + span_frac))
         model = self.factory(self.plan, self.element, self.settings, f_max, params)
         self.models += 1
         return feature_hz(model, self.settings, self.tune_for, expect_hz, span_frac)

@@ -192,6 +192,29 @@ def test_released_radii_replace_the_design_radii():
     assert not released and plain is e.path
 
 
+def test_released_radii_follow_a_tuned_loop():
+    from fabplan.forming.model import BendForming, ElementForming
+
+    d = parse_design("""[stock]
+diameter = "3 mm"
+material = "cu-c11000-annealed"
+[[element]]
+name = "loop"
+shape = "circle-loop"
+diameter = "680 mm"
+feed_gap = "15 mm"
+""")
+    plan = core_plan(d)
+    e = plan.elements[0]
+    bend = BendForming(1, "former", 300.0, 330.0, 340.0, 10.0, 340.0 * 1.02, 340.0, 0.01)
+    e = dataclasses.replace(e, forming=ElementForming((bend,)))
+    spec = tuning.SHAPES["circle-loop"]
+    bigger = spec.with_governing(e.spec.params, math.pi * 700.0)
+    path, released = planning.element_path(plan, e, bigger)
+    # the loop's radius is the tuned length: it keeps the element's final/design ratio
+    assert released and path.bends[0].radius_mm == pytest.approx(350.0 * 1.02)
+
+
 # -- tuning --------------------------------------------------------------------------
 @pytest.mark.parametrize("tune_for", ["least-swr", "resonance"])
 def test_tune_finds_the_exact_length_for_the_stand_in(tune_for):
