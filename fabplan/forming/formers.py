@@ -56,28 +56,31 @@ def _xy(v: np.ndarray) -> tuple[float, float]:
     return (float(v[0]), float(v[1]))
 
 
-def formers(path: BendPath, spans: Sequence, held_radii: Sequence[float],
-            wraps: Sequence[float], depth_mm: float, centre_mm: float) -> list[Former]:
+def _arcs(path: BendPath) -> list[Arc3]:
+    return [p for p in path.primitives() if isinstance(p, Arc3)]
+
+
+def formers(path: BendPath, rows: Sequence, held_radii: Sequence[float],
+            wraps: Sequence[float], depth_mm: float) -> list[Former]:
     """One disc per flat bend (pitch 0), in order from end A.
 
-    `spans` are the path's BendSpans (positions without trim), `held_radii`
-    the centreline radii held on the discs (mm), `wraps` the held angles (deg),
-    `centre_mm` the stock's centre along the neutral axis from end A (no trim)."""
-    arcs = [p for p in path.primitives() if isinstance(p, Arc3)]
+    `rows` are the Plan's bend rows (positions from the stock's centre),
+    `held_radii` the centreline radii held on the discs (mm), `wraps` the held
+    angles (deg)."""
     out = []
-    for span, arc, r_held, wrap in zip(spans, arcs, held_radii, wraps):
-        if span.bend.pitch_mm:
+    for row, arc, r_held, wrap in zip(rows, _arcs(path), held_radii, wraps):
+        if row.pitch_mm:
             continue
         centre = np.asarray(arc.centre)
-        if span.start_mm <= centre_mm <= span.end_mm:
+        if row.start_from_centre_mm <= 0 <= row.end_from_centre_mm:
             anchor = arc.point(arc.angle / 2)
-        elif span.end_mm < centre_mm:
+        elif row.end_from_centre_mm < 0:
             anchor = np.asarray(arc.end)
         else:
             anchor = np.asarray(arc.start)
         normal = (centre - anchor) / arc.radius
         disc = anchor + normal * r_held
-        out.append(Former(f"F{len(out) + 1}", (span.index,), _xy(disc),
+        out.append(Former(f"F{len(out) + 1}", (row.index,), _xy(disc),
                           r_held - depth_mm / 2, wrap))
     return out
 
@@ -87,9 +90,11 @@ def spacing(discs: Sequence[Former]) -> list[float]:
     return [math.dist(a.centre_mm, b.centre_mm) for a, b in zip(discs, discs[1:])]
 
 
-def jig_marks(path: BendPath, spans: Sequence, depth_mm: float, k_factor: float,
+def jig_marks(path: BendPath, rows: Sequence, depth_mm: float, k_factor: float,
               centre_mm: float) -> list[JigMark]:
-    """Stock centre, feed-gap ends and bend start/end marks (drawing plane)."""
+    """Stock centre, feed-gap ends and bend start/end marks (drawing plane).
+
+    `centre_mm`: the stock's centre along the neutral axis from end A (no trim)."""
     marks = []
     p, t = point_at(path, depth_mm, k_factor, centre_mm)
     marks.append(JigMark("centre of stock", "centre", _xy(p), _xy(t)))
@@ -98,13 +103,11 @@ def jig_marks(path: BendPath, spans: Sequence, depth_mm: float, k_factor: float,
                              _xy(np.asarray(path.heading) / np.linalg.norm(path.heading))))
         marks.append(JigMark("feed gap, end B", "gap", _xy(path.end_point()),
                              _xy(path.end_tangent())))
-    for span in spans:
-        _, t0 = point_at(path, depth_mm, k_factor, span.start_mm)
-        _, t1 = point_at(path, depth_mm, k_factor, span.end_mm)
-        marks.append(JigMark(f"bend {span.index} start", "bend-start",
-                             _xy(np.asarray(span.start_point)), _xy(t0)))
-        marks.append(JigMark(f"bend {span.index} end", "bend-end",
-                             _xy(np.asarray(span.end_point)), _xy(t1)))
+    for row, arc in zip(rows, _arcs(path)):
+        marks.append(JigMark(f"bend {row.index} start", "bend-start",
+                             _xy(np.asarray(row.start_point)), _xy(_arc_tangent(arc, 0.0))))
+        marks.append(JigMark(f"bend {row.index} end", "bend-end",
+                             _xy(np.asarray(row.end_point)), _xy(_arc_tangent(arc, arc.angle))))
     return marks
 
 

@@ -21,6 +21,7 @@ source, [P] common practice.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 
 from ..errors import Finding
 from ..stock.materials import Material
@@ -113,6 +114,7 @@ def _cth_rule(od_mm: float, annealed: bool) -> RadiusRule:
                       "OD rows (this size is not in the table)")
 
 
+@lru_cache(maxsize=64)
 def minimum_radius(material: Material, profile: Profile) -> RadiusRule:
     """The minimum centreline radius rule (mm) for this stock."""
     fam, temper = material.family, material.temper

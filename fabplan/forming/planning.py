@@ -142,7 +142,10 @@ def element_forming(design, e, model: SectionModel, settings: FormingSettings,
                 "calibrate with a test bend ([forming.calibration])", name))
     else:
         method = "bender"
-        states = [final_for_held(model, tool.radius_mm, a, depth, k) for a in angles]
+        # every bend is held at the tool's radius: one release, scaled per angle
+        one = final_for_held(model, tool.radius_mm, 1.0, depth, k)
+        states = [BendState(one.held_radius_mm, a * one.held_angle_deg, one.final_radius_mm,
+                            a, one.outer_strain) for a in angles]
         if tool.radius_mm >= rho_e:
             findings.append(Finding(
                 "former-above-elastic-limit", "error",
@@ -187,11 +190,10 @@ def element_forming(design, e, model: SectionModel, settings: FormingSettings,
         order = [s.index for s in sorted(sites, key=lambda s: (
             round(abs((s.start_mm + s.end_mm) / 2 - e.trim_mm - centre), 3), s.index))]
         if e.planar and rows:
-            spans = e.path.spans(depth, k)
-            discs = formers(e.path, spans, [s.held_radius_mm for s in states],
-                            [s.held_angle_deg for s in states], depth, centre)
+            discs = formers(e.path, rows, [s.held_radius_mm for s in states],
+                            [s.held_angle_deg for s in states], depth)
             gaps = spacing(discs)
-            marks = jig_marks(e.path, spans, depth, k, centre)
+            marks = jig_marks(e.path, rows, depth, k, centre)
             if e.spec.shape in _PARALLEL_SHAPES:
                 released = []
                 for b in rows:
