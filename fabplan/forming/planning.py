@@ -89,7 +89,7 @@ def _square_ends(plan_element, design, e, model: SectionModel, settings: Forming
             "square-ends-substituted", "warning",
             f"the {c:.1f} mm centre spacing needs round ends of {c / 2:.1f} mm centreline "
             f"radius but the {tool.radius_mm:.1f} mm bender makes {r_out:.1f} mm after "
-            f"springback: each end is planned as two 90-degree bends of {r_out:.1f} mm joined "
+            f"springback: each round end is planned as two 90-degree bends of {r_out:.1f} mm joined "
             f"by a {c - 2 * r_out:.1f} mm straight, and every length is recomputed; set "
             "[forming] square_ends = false to refuse this, or bend round a former", name)
         return new, found, [note]
