@@ -109,6 +109,12 @@ class PairIntegrals:
     near_fix: np.ndarray
     symmetric: bool
 
+    def symmetrise(self) -> None:
+        """Average M(i, j) with M(j, i) (u and v swapped): the pair set is symmetric, and
+        the near-pair quadratures of the two orders differ by about 1e-7."""
+        if self.symmetric:
+            self.static = 0.5 * (self.static + self.static[[0, 2, 1, 3]].transpose(0, 2, 1))
+
     def phase(self, k: float) -> np.ndarray:
         """exp(-j k R) at the smooth-part quadrature points, (P, q*q)."""
         return np.exp(-1j * k * self.r)

@@ -158,13 +158,17 @@ class WireModel:
         self.half_basis[self.rise] = np.arange(self.unknowns)
         self.half_basis[self.fall] = np.arange(self.unknowns)
         self.half_basis[pad] = -1
+        # 1 V across the whole gap: the field 1/g along every source segment, g their
+        # total length; int f_m . E dl = (l_k / 2) / g for each half on segment k
+        gap = sum(float(self.segments.length[s]) for s in set(self.source_segments))
         ex = np.zeros(self.unknowns)
-        for s in self.source_segments:
+        for s in set(self.source_segments):
             for h in (2 * s, 2 * s + 1):
                 m = self.half_basis[h]
                 if m >= 0:
-                    ex[m] += 0.5
-        self.excitation = ex  # int f_m . E dl with 1 V across the gap
+                    ex[m] += 0.5 * float(self.segments.length[s]) / gap
+        self.excitation = ex
+        self.gap_m = gap
 
     def _check_limits(self) -> None:
         seg = self.segments
@@ -207,20 +211,46 @@ class WireModel:
 
     def _integrals(self) -> tuple[PairIntegrals, PairIntegrals | None]:
         if self._free is None:
-            free = pair_integrals(self.segments, self.segments, symmetric=True)
+            seg = self.segments
+            reach = min(40, max(2, math.ceil(self.exact_reach_radii * float(seg.radius.max())
+                                             / float(seg.length.min()))))
+            free = pair_integrals(seg, seg, symmetric=True)
             if self.exact_kernel:
-                seg = self.segments
-                reach = max(2, math.ceil(self.exact_reach_radii * float(seg.radius.max())
-                                         / float(seg.length.min())))
                 ii, jj, mom = exact_kernel_correction(seg.length, seg.radius, self.closed,
-                                                      min(reach, 40))
+                                                      reach)
                 free.static[:, ii, jj] += mom
+            free.symmetrise()
             self._free = free
             if self.ground_z is not None:
-                self._image_segments = self.segments.mirrored(self.ground_z)
-                self._image = pair_integrals(self.segments, self._image_segments,
-                                             symmetric=True)
+                self._image_segments = seg.mirrored(self.ground_z)
+                image = pair_integrals(seg, self._image_segments, symmetric=True)
+                if self.exact_kernel:
+                    self._ground_chain_correction(image, reach)
+                image.symmetrise()
+                self._image = image
         return self._free, self._image
+
+    def _ground_chain_correction(self, image: PairIntegrals, reach: int) -> None:
+        """The exact-kernel correction between a wire end on the ground and its image:
+        the wire and its image form one chain through the ground node."""
+        seg = self.segments
+        n = self.n_seg
+        for at_start, has in ((True, self.fall[0] // 2 == 0 and self.rise[0] == 2 * n),
+                              (False, self.rise[-1] // 2 == n - 1 and self.fall[-1] == 2 * n)):
+            if not has:
+                continue
+            order = np.arange(n)
+            # chain: images (reversed) then the wire from node 0, or the wire then images
+            chain = np.concatenate([order[::-1], order]) if at_start else \
+                np.concatenate([order, order[::-1]])
+            is_image = np.arange(2 * n) < n if at_start else np.arange(2 * n) >= n
+            ii, jj, mom = exact_kernel_correction(seg.length[chain], seg.radius[chain], False,
+                                                  reach)
+            keep = ~is_image[ii] & is_image[jj]
+            obs, src, mom = chain[ii[keep]], chain[jj[keep]], mom[:, keep]
+            # an image segment runs against the chain: v -> 1 - v
+            m00, m01, m10, m11 = mom
+            image.static[:, obs, src] += np.stack([m00, m00 - m01, m10, m10 - m11])
 
     def _check_frequency(self, f_hz: float) -> None:
         if not (f_hz > 0 and math.isfinite(f_hz)):
