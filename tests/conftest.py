@@ -75,3 +75,71 @@ def folded_dipole_toml():
         return FOLDED_DIPOLE_TOML.format(d=d, side=side, spacing=spacing, gap=gap, trim=trim)
 
     return make
+
+
+class _EmWires:
+    """Straight-wire test geometries for the method-of-moments solver (mm)."""
+
+    @staticmethod
+    def dipole_nodes(length: float, gap: float, h: float, axis: int = 2,
+                     split_gap: bool = False):
+        """Nodes of a centre-fed straight dipole: the gap (one segment, or two halves
+        when split_gap) in the middle, segments growing by 1.6 up to h towards the
+        ends. Returns (nodes (N, 3), source segment indices)."""
+        import numpy as np
+
+        half = [gap / 2]
+        s = gap
+        while half[-1] < length / 2 - 1e-9:
+            s = min(1.6 * s, h)
+            rest = length / 2 - half[-1]
+            if rest < 1.5 * s:
+                if rest > s:
+                    half.append(half[-1] + rest / 2)
+                half.append(length / 2)
+                break
+            half.append(half[-1] + s)
+        side = np.array(half)
+        if split_gap:
+            z = np.concatenate([-side[::-1], [0.0], side])
+            src = [len(side) - 1, len(side)]
+        else:
+            z = np.concatenate([-side[::-1], side])
+            src = [len(side) - 1]
+        nodes = np.zeros((len(z), 3))
+        nodes[:, axis] = z
+        return nodes, src
+
+    @staticmethod
+    def circle_nodes(radius: float, n: int):
+        """n nodes of a regular polygon whose perimeter equals the circle's, in z = 0."""
+        import math
+
+        import numpy as np
+
+        r = radius * (math.pi / n) / math.sin(math.pi / n)
+        phi = np.arange(n) * 2 * math.pi / n
+        return np.stack([r * np.cos(phi), r * np.sin(phi), np.zeros(n)], axis=1)
+
+
+@pytest.fixture
+def em_wires():
+    return _EmWires
+
+
+@pytest.fixture(scope="session")
+def example_plan():
+    """The bundled example's Plan, made once per test session (read only)."""
+    from fabplan.design import load_design
+    from fabplan.plan import make_plan
+
+    return make_plan(load_design(EXAMPLE))
+
+
+@pytest.fixture(scope="session")
+def paper_pt():
+    """Paper sizes in PDF points (1 in = 25.4 mm = 72 pt), portrait (width, height)."""
+    return {
+        "a4": (595.276, 841.89),  # source: ISO 216, A4 = 210 x 297 mm
+        "letter": (612.0, 792.0),  # source: ANSI/ASME Y14.1, Letter = 8.5 x 11 in
+    }
