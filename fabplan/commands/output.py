@@ -120,58 +120,55 @@ def _sweep_csv(plan) -> str | None:
     return "\n".join([head, *rows]) + "\n"
 
 
-def _jig_writer():
-    """The jig stage's writer, once it exists."""
-    import importlib
+def _jig_files(plan) -> dict[str, bytes]:
+    """The jig stage's drawings {file name: bytes}, once that stage exists."""
     import importlib.util
 
-    if importlib.util.find_spec("fabplan.commands.jig") is None:
-        return None
-    return getattr(importlib.import_module("fabplan.commands.jig"), "write_jig_files", None)
+    if importlib.util.find_spec("fabplan.render.jigfiles") is None:
+        return {}
+    from ..jig.settings import JigSettings
+    from ..render.jigfiles import jig_layout_files
+
+    settings = plan.design.jig if plan.design.jig is not None else JigSettings()
+    return jig_layout_files(plan, settings, ("dxf", "svg"))[1]
 
 
 def build_files(design: Path, out_dir: Path, paper: str = "a4", template_paper: str | None = None,
                 force: bool = False, progress=None) -> tuple[list[Path], object]:
     """Write every output of `design` into `out_dir`; returns the paths written
-    and the Plan."""
-    from ..render.files import check_writable, write_bytes, write_text
+    and the Plan. Every target is checked before anything is written."""
+    from ..render.files import check_writable, write_bytes
     from ..render.report import plan_to_json
 
     progress = progress or (lambda what: None)
     out_dir = Path(out_dir)
     if out_dir.exists() and not out_dir.is_dir():
         raise FabplanError("is a file, not a folder", field="--output", value=str(out_dir))
-    progress("reading the design and planning")
-    plan = load_plan(design)
-    sweep = _sweep_csv(plan)
-    names = [BUILD_NAMES["plan"], BUILD_NAMES["sheet"], BUILD_NAMES["template"]]
-    if sweep is not None:
-        names.append(BUILD_NAMES["sweep"])
-    if not out_dir.exists():
-        out_dir.mkdir(parents=True)
-    for name in names:
-        check_writable(out_dir / name, force)
-    writer = _jig_writer()
-    written: list[Path] = []
-    if writer is not None:
-        progress("drawing the jig (DXF, SVG)")
-        from ..jig.settings import JigSettings
 
-        settings = plan.design.jig if plan.design.jig is not None else JigSettings()
-        jig_paths = writer(plan, settings, out_dir, ("dxf", "svg"), force)
-        written += [Path(p) for p in (jig_paths or ())]
-    progress("writing plan.json")
-    written.append(write_text(out_dir / BUILD_NAMES["plan"], plan_to_json(plan), force))
+    def check(names) -> None:
+        if out_dir.is_dir():
+            for name in names:
+                check_writable(out_dir / name, force)
+
+    fixed = [BUILD_NAMES["plan"], BUILD_NAMES["sheet"], BUILD_NAMES["template"]]
+    check(fixed)
+    plan = load_plan(design)
+    files: dict[str, bytes] = dict(_jig_files(plan))
+    sweep = _sweep_csv(plan)
+    if sweep is not None:
+        files[BUILD_NAMES["sweep"]] = sweep.encode("utf-8")
+    check(files)
+    files[BUILD_NAMES["plan"]] = plan_to_json(plan).encode("utf-8")
     from ..render.fullscale import template_pdf
     from ..render.sheet import sheet_pdf
 
-    progress("writing the build sheet")
-    written.append(write_bytes(out_dir / BUILD_NAMES["sheet"], sheet_pdf(plan, paper), force))
-    progress("writing the full-scale template")
-    written.append(write_bytes(out_dir / BUILD_NAMES["template"],
-                               template_pdf(plan, template_paper or paper), force))
-    if sweep is not None:
-        written.append(write_text(out_dir / BUILD_NAMES["sweep"], sweep, force))
+    progress("drawing the build sheet")
+    files[BUILD_NAMES["sheet"]] = sheet_pdf(plan, paper)
+    progress("drawing the full-scale template")
+    files[BUILD_NAMES["template"]] = template_pdf(plan, template_paper or paper)
+    out_dir.mkdir(parents=True, exist_ok=True)
+    progress(f"writing {len(files)} files into {out_dir}")
+    written = [write_bytes(out_dir / name, data, force) for name, data in sorted(files.items())]
     return written, plan
 
 

@@ -75,6 +75,7 @@ class _Ctx:
         self.body = ParagraphStyle("body", parent=ss["BodyText"], fontSize=8.5, leading=10.5,
                                    spaceAfter=3)
         self.small = ParagraphStyle("small", parent=self.body, fontSize=7.5, leading=9)
+        self.caption = ParagraphStyle("caption", parent=self.small, keepWithNext=1)
         self.cell = ParagraphStyle("cell", parent=self.body, fontSize=8, leading=9.5,
                                    spaceAfter=0)
         self.cellr = ParagraphStyle("cellr", parent=self.cell, alignment=2)
@@ -117,7 +118,7 @@ class _Ctx:
         ]))
         out = []
         if caption:
-            out.append(self.p(caption, self.small))
+            out.append(self.p(caption, self.caption))
         out.append(t)
         return out
 
@@ -367,7 +368,7 @@ def _drawing(ctx: _Ctx, e) -> list:
             if (mx - cx_mid) * nx + (my - cy_mid) * ny < 0:
                 nx, ny = -nx, -ny
             px, py = P(mx, my)
-            off = e.conductor_diameter_mm / 2 * k + 8
+            off = e.conductor_diameter_mm / 2 * k + 19  # beyond the mark labels
             d.add(String(px + nx * off, py + ny * off - 3, ctx.L(length), fontSize=7,
                          textAnchor="middle"))
         elif prim[0] == "A":
@@ -392,7 +393,11 @@ def _drawing(ctx: _Ctx, e) -> list:
             px, py = P(px_, py_)
             d.add(Line(px - ty * ext, py + tx * ext, px + ty * ext, py - tx * ext,
                        strokeWidth=0.6, strokeColor=colors.Color(0.75, 0.1, 0.1)))
-            d.add(String(px - ty * (ext + 5), py + tx * (ext + 5) - 2.5, mid, fontSize=6,
+            # label on the side of the conductor away from the middle of the drawing
+            nx, ny = -ty, tx
+            if (px_ - cx_mid) * nx + (py_ - cy_mid) * ny < 0:
+                nx, ny = -nx, -ny
+            d.add(String(px + nx * (ext + 5), py + ny * (ext + 5) - 2.5, mid, fontSize=6,
                          textAnchor="middle", fillColor=colors.Color(0.75, 0.1, 0.1)))
     if f is not None:
         for fm in f.formers:
@@ -446,6 +451,8 @@ def _money(currency, amount) -> str:
 
 def _order(ctx: _Ctx) -> list:
     """Bill of material and cutting plan from the estimate stage."""
+    from reportlab.platypus import Paragraph
+
     o = ctx.plan.order
     if o is None:
         return []
@@ -474,10 +481,10 @@ def _order(ctx: _Ctx) -> list:
     out.append(ctx.p("Cutting plan", ctx.h3))
     rows = []
     for p in o.pieces:
-        cuts = "; ".join(f"{c.element}{' (spare)' if c.spare else ''}: "
-                         f"{_fmt_in(c.length_mm, ctx.den)} ({format_mm(c.length_mm)}) at "
-                         f"{format_mm(c.start_mm)}" for c in p.cuts)
-        rows.append([str(p.index), f"{p.offer}, {ctx.L(p.length_mm)}", cuts,
+        cuts = "<br/>".join(_esc(f"{c.element}{' (spare)' if c.spare else ''}: "
+                                 f"{_fmt_in(c.length_mm, ctx.den)} ({format_mm(c.length_mm)}) "
+                                 f"at {format_mm(c.start_mm)}") for c in p.cuts)
+        rows.append([str(p.index), f"{p.offer}, {ctx.L(p.length_mm)}", Paragraph(cuts, ctx.cell),
                      ctx.L(p.remnant_mm) if p.remnant_mm > 0 else "none",
                      f"{p.utilisation * 100:.0f}"])
     out += ctx.table(["piece", "stock", "cuts: element: length at start from end A",
@@ -507,7 +514,8 @@ def _electrical(ctx: _Ctx) -> list:
     for e in items:
         el = e.electrical
         sw = el.sweep
-        bw = ", ".join(f"SWR < {key}: {format_frequency(v)}" if v else f"SWR < {key}: -"
+        bw = ", ".join(f"SWR < {key}: {format_frequency(v)}" if v else
+                       f"SWR < {key}: not reached in the sweep"
                        for key, v in sorted(sw.bandwidth_hz.items()))
         rows = [["target frequency", format_frequency(el.target_hz) if el.target_hz else "-"],
                 ["resonance (reactance zero)", format_frequency(sw.resonance_hz)
@@ -524,8 +532,20 @@ def _electrical(ctx: _Ctx) -> list:
         out.append(_swr_plot(ctx, sw))
         for note in el.notes:
             out.append(ctx.p(note, ctx.small))
-    if ctx.plan.electrical is not None:
-        out += _ext_text(ctx, ctx.plan.electrical)
+    pe = ctx.plan.electrical
+    if pe is not None:
+        rows = [["matching", pe.matching], ["ground", pe.ground]]
+        if pe.balun_loop_cut_length_mm is not None:
+            rows.append(["balun loop cut length", f"{ctx.L(pe.balun_loop_cut_length_mm)} of "
+                                                  f"{pe.balun_cable or 'coaxial cable'}"])
+        if pe.feed_line_loss_db is not None:
+            rows.append(["feed line loss (matched)", f"{pe.feed_line_loss_db:.2f} dB"])
+        if pe.power_w is not None:
+            rows.append(["transmitter power", f"{pe.power_w:g} W"])
+        rows.append(["uncertainty", f"about {pe.uncertainty_frac * 100:.1f} % in frequency"])
+        out.append(ctx.p("Matching and feed", ctx.h3))
+        out += ctx.table(["figure", "value (unit)"], rows, [0.3, 0.7], "ll",
+                         caption="Lengths in inches and millimetres; loss in dB; power in W.")
     return out
 
 
@@ -581,6 +601,9 @@ def _safety(ctx: _Ctx) -> list:
     out = [ctx.p("Safety", ctx.h2)]
     for head, text in SAFETY:
         out.append(Paragraph(f"<b>{_esc(head)}.</b> {_esc(text)}", ctx.body))
+    pe = ctx.plan.electrical
+    for caution in (pe.cautions if pe is not None else ()):
+        out.append(Paragraph(f"<b>From the electrical check.</b> {_esc(caution)}", ctx.body))
     out.append(ctx.p(SAFETY_FOOTNOTE, ctx.small))
     return out
 

@@ -1,0 +1,101 @@
+"""`fabplan build`, `sheet` and `template` run as the installed command line."""
+
+from __future__ import annotations
+
+import json
+
+import pdfplumber
+import pytest
+
+import fabplan.cli  # noqa: F401 - the CLI first: it registers the command modules
+from fabplan.commands.output import BUILD_NAMES
+
+
+@pytest.fixture(scope="module")
+def built(tmp_path_factory):
+    """The example built twice into two folders, by the command line."""
+    import os
+    import subprocess
+    import sys
+    from pathlib import Path
+
+    root = Path(__file__).resolve().parents[2]
+    example = root / "examples" / "club-uhf-folded-dipoles.toml"
+    base = tmp_path_factory.mktemp("build")
+    env = {k: v for k, v in os.environ.items() if k != "PYTHONWARNINGS"}
+    procs = []
+    for name in ("one", "two"):
+        procs.append(subprocess.run([sys.executable, "-m", "fabplan", "build", str(example),
+                                     "-o", str(base / name)], capture_output=True, text=True,
+                                    env=env, cwd=root, timeout=300))
+    return base, procs
+
+
+def test_build_writes_everything(built):
+    base, procs = built
+    assert procs[0].returncode == 0, procs[0].stderr
+    out = base / "one"
+    for key in ("plan", "sheet", "template"):
+        assert (out / BUILD_NAMES[key]).stat().st_size > 0
+    plan = json.loads((out / BUILD_NAMES["plan"]).read_text())
+    assert plan["project"].startswith("Hillcrest")
+    for key in ("sheet", "template"):
+        with pdfplumber.open(out / BUILD_NAMES[key]) as pdf:
+            assert len(pdf.pages) >= 2
+    written = [line.split(" ", 1)[1] for line in procs[0].stdout.splitlines()
+               if line.startswith("wrote ")]
+    assert sorted(p.rsplit("/", 1)[-1] for p in written) == sorted(
+        p.name for p in out.iterdir())  # it says what it wrote, and wrote nothing else
+
+
+def test_same_input_same_bytes(built):
+    base, procs = built
+    assert procs[1].returncode == 0, procs[1].stderr
+    one = sorted(p.name for p in (base / "one").iterdir())
+    assert one == sorted(p.name for p in (base / "two").iterdir())
+    # the files this command renders itself (the jig drawings have their own test)
+    for name in sorted(set(one) & set(BUILD_NAMES.values())):
+        assert (base / "one" / name).read_bytes() == (base / "two" / name).read_bytes(), name
+
+
+def test_refuses_to_overwrite_then_force(run_cli, example_path, tmp_path):
+    out = tmp_path / "out"
+    out.mkdir()
+    (out / BUILD_NAMES["template"]).write_text("keep me")
+    proc = run_cli("build", example_path, "-o", out)
+    assert proc.returncode == 2
+    assert len(proc.stderr.strip().splitlines()) == 1
+    assert "already exists" in proc.stderr and "--force" in proc.stderr
+    # nothing else was written before the refusal, and the file is untouched
+    assert sorted(p.name for p in out.iterdir()) == [BUILD_NAMES["template"]]
+    assert (out / BUILD_NAMES["template"]).read_text() == "keep me"
+    proc = run_cli("build", example_path, "-o", out, "--force")
+    assert proc.returncode == 0, proc.stderr
+    assert (out / BUILD_NAMES["template"]).read_bytes().startswith(b"%PDF")
+
+
+def test_sheet_and_template_commands(run_cli, example_path, tmp_path):
+    sheet = tmp_path / "s.pdf"
+    proc = run_cli("sheet", example_path, "-o", sheet, "--paper", "letter", check_exit=0)
+    with pdfplumber.open(sheet) as pdf:
+        assert (pdf.pages[0].width, pdf.pages[0].height) == (612, 792)  # Letter 8.5 x 11 in
+    proc = run_cli("sheet", example_path, "-o", sheet, "--paper", "letter")
+    assert proc.returncode == 2 and "already exists" in proc.stderr
+    roll = tmp_path / "t.pdf"
+    run_cli("template", example_path, "-o", roll, "--paper", "roll-914mm", check_exit=0)
+    with pdfplumber.open(roll) as pdf:
+        assert len(pdf.pages) == 1
+        assert pdf.pages[0].width == pytest.approx(914 * 72 / 25.4, abs=0.01)  # 914 mm roll
+
+
+@pytest.mark.parametrize("args", [("sheet", "--paper", "a3"),
+                                  ("template", "--paper", "tabloid"),
+                                  ("build", "--paper", "roll-914mm")])
+def test_bad_paper_is_one_line_exit_2(run_cli, example_path, tmp_path, args):
+    command, *rest = args
+    target = tmp_path / ("out" if command == "build" else "x.pdf")
+    proc = run_cli(command, example_path, "-o", target, *rest)
+    assert proc.returncode == 2
+    lines = proc.stderr.strip().splitlines()
+    assert len(lines) == 1 and "--paper" in lines[0] and "Traceback" not in proc.stderr
+    assert not target.exists()
