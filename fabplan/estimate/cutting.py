@@ -1,0 +1,501 @@
+"""One-dimensional cutting stock: which stock pieces to buy and which cuts come from each.
+
+Pieces `lengths` (mm) are cut from stock pieces whose usable length is `U`
+(mm, the stock length less its unusable ends), with a saw kerf `k` (mm) after
+every cut. A stock piece holds pieces l_1..l_m when
+
+    sum(l_i) + k * (m - 1) <= U,   i.e.  sum(l_i + k) <= U + k,
+
+so each piece is an item of size l + k in a bin of capacity U + k (common
+practice, no source). Stock may be offered in several lengths at different
+prices; `pack` looks for the cheapest set of stock pieces:
+
+1. heuristics: first-fit decreasing with each offer alone, then each stock
+   piece moved to the cheapest offer that still holds its cuts; and a
+   sequential pattern fill that repeatedly cuts the fullest piece of the offer
+   with the lowest cost per millimetre used;
+2. an exact branch and bound over the cuts (small orders), and over the cuts of
+   the least-used stock pieces (large orders);
+3. lower bounds: the cheapest set of stock whose total capacity covers the total
+   size, and the count ceil(sum(l + k) / (U + k)) for the longest stock.
+
+Pure functions, deterministic (no clocks, no randomness: the exact search
+stops after a fixed number of nodes).
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from typing import Sequence
+
+__all__ = ["StockOption", "Packing", "pack", "pieces_per_stock", "remnant_mm",
+           "lower_bound_pieces", "cover_bound", "EXACT_ITEMS", "NODE_LIMIT"]
+
+EPS = 1e-6  # mm: lengths closer than this are equal
+EXACT_ITEMS = 40  # orders up to this many cuts get the exact search over all cuts
+NODE_LIMIT = 60_000  # nodes of one exact search before it gives up (deterministic)
+_FILL_BUDGET = 400  # nodes of one best-fill search
+_REPACK_ITEMS = 24  # cuts of the least-used stock pieces repacked exactly in large orders
+
+
+@dataclass(frozen=True)
+class StockOption:
+    """Stock for sale as the solver sees it: usable length (mm) and cost of one piece."""
+
+    usable_mm: float
+    cost: float
+
+
+@dataclass(frozen=True)
+class Packing:
+    """Stock pieces to buy: `bins` holds (option index, item indices in cutting order)."""
+
+    bins: tuple[tuple[int, tuple[int, ...]], ...]
+    cost: float
+    proven_optimal: bool
+    method: str
+    lower_bound_cost: float
+    lower_bound_pieces: int
+
+
+def pieces_per_stock(usable_mm: float, piece_mm: float, kerf_mm: float) -> int:
+    """How many pieces `piece_mm` long come from `usable_mm` of stock with kerf `kerf_mm`:
+    n = floor((U + k) / (L + k)) (common practice, no source)."""
+    return math.floor((usable_mm + kerf_mm) / (piece_mm + kerf_mm) + 1e-9)
+
+
+def remnant_mm(usable_mm: float, lengths: Sequence[float], kerf_mm: float) -> float:
+    """Usable stock left after cutting `lengths` (mm), one kerf after each cut
+    (the last cut separates the pieces from the remnant); 0 when nothing is left."""
+    left = usable_mm - sum(lengths) - kerf_mm * len(lengths)
+    return max(0.0, left) if left > EPS else 0.0
+
+
+def lower_bound_pieces(lengths: Sequence[float], kerf_mm: float, usable_mm: float) -> int:
+    """ceil(sum(l + k) / (U + k)): no plan uses fewer stock pieces of usable length U."""
+    total = sum(lengths) + kerf_mm * len(lengths)
+    return max(0, math.ceil(total / (usable_mm + kerf_mm) - 1e-9))
+
+
+def cover_bound(total: float, caps: Sequence[float], costs: Sequence[float],
+                budget: int = 200_000) -> float:
+    """The least cost of stock whose total capacity (mm) is at least `total` (mm):
+    a lower bound on the cost of any packing. Falls back to the weaker
+    continuous bound total x (cheapest cost per mm) when the search grows large."""
+    opts = sorted(((cap, c) for cap, c in zip(caps, costs) if cap > EPS),
+                  key=lambda o: (o[1] / o[0], -o[0]))
+    if total <= EPS or not opts:
+        return 0.0
+    rates = [c / cap for cap, c in opts]
+    rest_rate = [min(rates[i:]) for i in range(len(opts))]
+    best = min(math.ceil(total / cap - 1e-9) * c for cap, c in opts)
+    nodes = 0
+
+    def rec(i: int, rem: float, cost: float) -> None:
+        nonlocal best, nodes
+        nodes += 1
+        if nodes > budget:
+            raise _Budget
+        if rem <= EPS:
+            best = min(best, cost)
+            return
+        cap, c = opts[i]
+        if i == len(opts) - 1:
+            best = min(best, cost + math.ceil(rem / cap - 1e-9) * c)
+            return
+        if cost + rem * rest_rate[i] >= best:
+            return
+        for n in range(math.ceil(rem / cap - 1e-9), -1, -1):
+            rec(i + 1, rem - n * cap, cost + n * c)
+
+    try:
+        rec(0, total, 0.0)
+    except _Budget:
+        return total * rest_rate[0]
+    return best
+
+
+class _Budget(Exception):
+    pass
+
+
+def pack(lengths: Sequence[float], kerf_mm: float, options: Sequence[StockOption], *,
+         exact_items: int = EXACT_ITEMS, node_limit: int = NODE_LIMIT) -> Packing:
+    """The cheapest set of stock pieces found for `lengths` (mm) with kerf `kerf_mm` (mm).
+
+    Every length must fit the usable length of at least one option (ValueError
+    otherwise). `proven_optimal` is true when the exact search finished or the
+    cost meets the lower bound.
+    """
+    if not options:
+        raise ValueError("no stock options")
+    sizes = [float(x) + kerf_mm for x in lengths]
+    caps = [o.usable_mm + kerf_mm for o in options]
+    costs = [float(o.cost) for o in options]
+    if sizes and max(sizes) > max(caps) + EPS:
+        raise ValueError("a piece is longer than every stock option")
+    useful = _undominated(caps, costs)
+    total = sum(sizes)
+    lb_pieces = math.ceil(total / max(caps) - 1e-9) if sizes else 0
+    if not sizes:
+        return Packing((), 0.0, True, "nothing to cut", 0.0, 0)
+    order = sorted(range(len(sizes)), key=lambda i: (-sizes[i], i))
+    solver = _Solver(sizes, caps, costs, useful, order)
+    lb_cost = solver.lower_bound_cost()
+    candidates = [solver.ffd(order, o) for o in useful if caps[o] >= sizes[order[0]] - EPS]
+    candidates.append(solver.pattern_fill(order))
+    bins = min(candidates, key=lambda b: (solver.cost(b), len(b)))
+    tol = 1e-9 * max(1.0, lb_cost)
+    proven = solver.cost(bins) <= lb_cost + tol
+    method = "heuristic, meets the lower bound"
+    if proven:
+        pass
+    elif len(sizes) <= exact_items:
+        found, proven = solver.exact(order, solver.cost(bins), node_limit)
+        bins = found or bins
+        method = "exact search" if proven else "heuristic (exact search stopped)"
+    else:
+        found, proven = solver.pattern_program()
+        if found is not None and solver.cost(found) < solver.cost(bins) - tol:
+            bins = found
+        if proven:
+            method = "exact (integer program over cutting patterns)"
+        else:
+            bins = solver.repack_worst(bins, node_limit)
+            proven = solver.cost(bins) <= lb_cost + tol
+            method = "heuristic, meets the lower bound" if proven else "heuristic"
+    return Packing(solver.finish(bins), solver.cost(bins), proven, method, lb_cost, lb_pieces)
+
+
+def _undominated(caps: list[float], costs: list[float]) -> list[int]:
+    """Options not beaten by another that is at least as long and no dearer."""
+    keep = []
+    for i in range(len(caps)):
+        beaten = any(
+            j != i and caps[j] >= caps[i] - EPS and costs[j] <= costs[i]
+            and (caps[j] > caps[i] + EPS or costs[j] < costs[i] or j < i)
+            for j in range(len(caps)))
+        if not beaten:
+            keep.append(i)
+    return keep
+
+
+Bin = tuple[int, list[int]]  # (option index, item indices)
+
+
+class _Solver:
+    def __init__(self, sizes: list[float], caps: list[float], costs: list[float],
+                 useful: list[int], order: list[int]) -> None:
+        self.sizes = sizes
+        self.caps = caps
+        self.costs = costs
+        self.useful = useful
+        self.groups: list[list[int]] = []  # item indices of equal size, largest size first
+        for i in order:
+            if self.groups and abs(sizes[self.groups[-1][0]] - sizes[i]) <= EPS:
+                self.groups[-1].append(i)
+            else:
+                self.groups.append([i])
+        self.gsize = [sizes[g[0]] for g in self.groups]
+
+    def lower_bound_cost(self) -> float:
+        """cover_bound with each option's capacity cut to the fullest it can be filled
+        with these pieces (when that search finishes): no stock piece holds more."""
+        counts = [len(g) for g in self.groups]
+        caps = []
+        for o in self.useful:
+            take, exact = _best_fill(self.gsize, counts, self.caps[o], budget=20_000)
+            caps.append(sum(t * s for t, s in zip(take, self.gsize)) if exact else self.caps[o])
+        costs = [self.costs[o] for o in self.useful]
+        total = sum(self.sizes)
+        return max(cover_bound(total, caps, costs),
+                   cover_bound(total, [self.caps[o] for o in self.useful], costs))
+
+    def cost(self, bins: list[Bin]) -> float:
+        return sum(self.costs[o] for o, _ in bins)
+
+    def load(self, items: Sequence[int]) -> float:
+        return sum(self.sizes[i] for i in items)
+
+    def cheapest_for(self, load: float) -> int:
+        fits = [o for o in self.useful if self.caps[o] >= load - EPS]
+        return min(fits, key=lambda o: (self.costs[o], -self.caps[o], o))
+
+    def downsize(self, bins: list[Bin]) -> list[Bin]:
+        return [(self.cheapest_for(self.load(items)), items) for _, items in bins]
+
+    # -- heuristics ---------------------------------------------------------
+    def ffd(self, order: list[int], option: int) -> list[Bin]:
+        """First-fit decreasing into stock of one option, then each piece downsized."""
+        cap = self.caps[option]
+        rems: list[float] = []
+        contents: list[list[int]] = []
+        for i in order:
+            s = self.sizes[i]
+            for b, rem in enumerate(rems):
+                if rem >= s - EPS:
+                    rems[b] -= s
+                    contents[b].append(i)
+                    break
+            else:
+                rems.append(cap - s)
+                contents.append([i])
+        return self.downsize([(option, c) for c in contents])
+
+    def pattern_fill(self, order: list[int]) -> list[Bin]:
+        """Repeatedly cut the fullest stock piece of the option with the lowest
+        cost per millimetre used, then downsize each piece."""
+        groups, gsize = self.groups, self.gsize
+        counts = [len(g) for g in groups]
+        taken = [0] * len(groups)
+        cache: dict[int, list[int]] = {}
+        bins: list[Bin] = []
+        left = len(order)
+        while left:
+            best = None
+            smallest = min(gsize[j] for j in range(len(groups)) if counts[j])
+            for o in self.useful:
+                if self.caps[o] < smallest - EPS:
+                    continue
+                take = cache.get(o)
+                if take is None or any(t > c for t, c in zip(take, counts)) or not any(take):
+                    take = _best_fill(gsize, counts, self.caps[o])[0]
+                    cache[o] = take
+                filled = sum(t * s for t, s in zip(take, gsize))
+                if filled <= EPS:
+                    continue
+                key = (self.costs[o] / filled, -filled, o)
+                if best is None or key < best[0]:
+                    best = (key, o, take)
+            if best is None:  # cannot happen: every piece fits some option
+                raise ValueError("a piece fits no stock option")
+            _, o, take = best
+            items = []
+            for j, t in enumerate(take):
+                items += groups[j][taken[j]:taken[j] + t]
+                taken[j] += t
+                counts[j] -= t
+                left -= t
+            bins.append((o, items))
+        return self.downsize(bins)
+
+    # -- exact search -------------------------------------------------------
+    def exact(self, items: list[int], incumbent: float,
+              node_limit: int) -> tuple[list[Bin] | None, bool]:
+        """Branch and bound over `items` (largest first): each goes into an open stock
+        piece or opens one of each option. Returns (cheaper bins or None, finished)."""
+        sizes = [self.sizes[i] for i in items]
+        n = len(sizes)
+        suffix = [0.0] * (n + 1)
+        for i in range(n - 1, -1, -1):
+            suffix[i] = suffix[i + 1] + sizes[i]
+        opts = sorted(self.useful, key=lambda o: (self.costs[o] / self.caps[o], o))
+        rate = min(self.costs[o] / self.caps[o] for o in opts)
+        single = len(opts) == 1
+        bin_opt: list[int] = []
+        bin_rem: list[float] = []
+        assign = [-1] * n
+        tol = 1e-9 * max(1.0, incumbent)
+        state = {"best": incumbent - tol, "found": None, "nodes": 0, "complete": True}
+
+        def bound(i: int, cost: float) -> float:
+            smallest = sizes[n - 1]
+            free = sum(r for r in bin_rem if r >= smallest - EPS)
+            need = suffix[i] - free
+            if need <= EPS:
+                return cost
+            if single:
+                o = opts[0]
+                return cost + math.ceil(need / self.caps[o] - 1e-9) * self.costs[o]
+            return cost + need * rate
+
+        def dfs(i: int, cost: float) -> None:
+            state["nodes"] += 1
+            if state["nodes"] > node_limit:
+                state["complete"] = False
+                raise _Budget
+            if i == n:
+                if cost < state["best"]:
+                    state["best"] = cost - tol
+                    state["found"] = (list(bin_opt), list(assign))
+                return
+            if bound(i, cost) >= state["best"]:
+                return
+            s = sizes[i]
+            start = assign[i - 1] if i and abs(sizes[i - 1] - s) <= EPS else 0
+            seen = set()
+            for rem, b in sorted((bin_rem[b], b) for b in range(start, len(bin_rem))):
+                if rem < s - EPS:
+                    continue
+                key = (bin_opt[b], round(rem, 6))
+                if key in seen:
+                    continue
+                seen.add(key)
+                bin_rem[b] -= s
+                assign[i] = b
+                dfs(i + 1, cost)
+                bin_rem[b] += s
+            for o in opts:
+                if self.caps[o] < s - EPS:
+                    continue
+                bin_opt.append(o)
+                bin_rem.append(self.caps[o] - s)
+                assign[i] = len(bin_opt) - 1
+                dfs(i + 1, cost + self.costs[o])
+                bin_opt.pop()
+                bin_rem.pop()
+            assign[i] = -1
+
+        try:
+            dfs(0, 0.0)
+        except _Budget:
+            pass
+        found = state["found"]
+        if found is None:
+            return None, bool(state["complete"])
+        opt_of, where = found
+        bins: list[Bin] = [(o, []) for o in opt_of]
+        for pos, b in enumerate(where):
+            bins[b][1].append(items[pos])
+        return self.downsize(bins), bool(state["complete"])
+
+    def pattern_program(self, max_patterns: int = 4000,
+                        max_sizes: int = 15) -> tuple[list[Bin] | None, bool]:
+        """Few distinct lengths, many pieces: an integer program over the cutting
+        patterns (counts of each length in one stock piece), solved exactly by
+        scipy's HiGHS interface. Returns (bins or None, proven optimal)."""
+        if len(self.gsize) > max_sizes:
+            return None, False
+        counts = [len(g) for g in self.groups]
+        patterns: list[tuple[int, list[int]]] = []
+        for o in self.useful:
+            for take in _maximal_patterns(self.gsize, counts, self.caps[o],
+                                          max_patterns - len(patterns)):
+                patterns.append((o, take))
+            if len(patterns) >= max_patterns:
+                return None, False
+        import numpy as np
+        from scipy.optimize import Bounds, LinearConstraint, milp
+
+        a = np.array([take for _, take in patterns], dtype=float).T
+        c = np.array([self.costs[o] for o, _ in patterns])
+        res = milp(c, constraints=LinearConstraint(a, np.array(counts, float), np.inf),
+                   integrality=np.ones(len(patterns)), bounds=Bounds(0, np.inf),
+                   options={"node_limit": 5000, "mip_rel_gap": 1e-9})
+        if res.x is None:
+            return None, False
+        x = [int(round(v)) for v in res.x]
+        pools = [list(g) for g in self.groups]
+        bins: list[Bin] = []
+        for (o, take), times in zip(patterns, x):
+            for _ in range(times):
+                items = []
+                for j, t in enumerate(take):
+                    items += pools[j][:t]
+                    del pools[j][:t]
+                if items:
+                    bins.append((o, items))
+        if any(pools):
+            return None, False
+        return self.downsize(bins), res.status == 0
+
+    def repack_worst(self, bins: list[Bin], node_limit: int) -> list[Bin]:
+        """Repack the cuts of the least-used stock pieces exactly, when cheaper."""
+        ranked = sorted(range(len(bins)),
+                        key=lambda b: (self.load(bins[b][1]) / self.caps[bins[b][0]], b))
+        chosen: list[int] = []
+        count = 0
+        for b in ranked:
+            if count + len(bins[b][1]) > _REPACK_ITEMS or len(chosen) == 4:
+                break
+            chosen.append(b)
+            count += len(bins[b][1])
+        if len(chosen) < 2:
+            return bins
+        items = sorted((i for b in chosen for i in bins[b][1]), key=lambda i: (-self.sizes[i], i))
+        found, _ = self.exact(items, sum(self.costs[bins[b][0]] for b in chosen), node_limit)
+        if found is None:
+            return bins
+        return [bins[b] for b in range(len(bins)) if b not in chosen] + found
+
+    def finish(self, bins: list[Bin]) -> tuple[tuple[int, tuple[int, ...]], ...]:
+        """Longest cuts first in each piece; pieces by option, then fullest first."""
+        out = []
+        for o, items in bins:
+            cuts = tuple(sorted(items, key=lambda i: (-self.sizes[i], i)))
+            out.append((o, cuts))
+        out.sort(key=lambda b: (b[0], -self.load(b[1]), b[1]))
+        return tuple(out)
+
+
+def _maximal_patterns(gsize: list[float], counts: list[int], cap: float, limit: int):
+    """Cutting patterns (count of each size) for one stock piece to which no
+    further piece fits; at most `limit` of them (then one more, to signal the cut-off)."""
+    n = len(gsize)
+    cur = [0] * n
+    found = 0
+
+    def rec(j: int, rem: float):
+        nonlocal found
+        if found > limit:
+            return
+        if j == n:
+            if any(cur) and all(cur[i] >= counts[i] or gsize[i] > rem + EPS for i in range(n)):
+                found += 1
+                yield list(cur)
+            return
+        tmax = min(counts[j], math.floor((rem + EPS) / gsize[j]))
+        for t in range(tmax, -1, -1):
+            cur[j] = t
+            yield from rec(j + 1, rem - t * gsize[j])
+        cur[j] = 0
+
+    yield from rec(0, cap)
+
+
+def _best_fill(gsize: list[float], counts: list[int], cap: float,
+               budget: int = _FILL_BUDGET) -> tuple[list[int], bool]:
+    """How many of each size (descending) fill one stock piece of capacity `cap` most,
+    and whether that is proven the fullest (the search stops after `budget` nodes)."""
+    n = len(gsize)
+    take = [0] * n
+    rem = cap
+    for j in range(n):
+        t = min(counts[j], math.floor((rem + EPS) / gsize[j]))
+        take[j] = t
+        rem -= t * gsize[j]
+    best = list(take)
+    best_fill = cap - rem
+    if rem <= EPS:
+        return best, True
+    if n > 200:
+        return best, False
+    avail = [0.0] * (n + 1)
+    for j in range(n - 1, -1, -1):
+        avail[j] = avail[j + 1] + counts[j] * gsize[j]
+    cur = [0] * n
+    nodes = 0
+
+    def dfs(j: int, filled: float) -> bool:
+        nonlocal best, best_fill, nodes
+        nodes += 1
+        if filled > best_fill + EPS:
+            best, best_fill = list(cur), filled
+            if best_fill >= cap - EPS:
+                return True
+        if j == n or nodes > budget:
+            return nodes > budget
+        if filled + min(cap - filled, avail[j]) <= best_fill + EPS:
+            return False
+        tmax = min(counts[j], math.floor((cap - filled + EPS) / gsize[j]))
+        for t in range(tmax, -1, -1):
+            cur[j] = t
+            if dfs(j + 1, filled + t * gsize[j]):
+                cur[j] = 0
+                return True
+        cur[j] = 0
+        return False
+
+    dfs(0, 0.0)
+    return best, nodes <= budget
