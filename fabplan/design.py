@@ -82,6 +82,7 @@ class Design:
 # its settings object (or None when its tables are absent).
 EXTENSIONS: dict[str, str] = {
     "forming": "fabplan.forming.config:read_forming",
+    "purchase": "fabplan.estimate.config:read_purchase",
     "electrical": "fabplan.em.config:read_electrical",
 }
 

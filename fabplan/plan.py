@@ -120,6 +120,7 @@ class Plan:
 # later stages, each "module:function" taking a Plan and returning a Plan
 STEPS: list[str] = [
     "fabplan.forming.planning:apply",
+    "fabplan.estimate.planning:apply",
     "fabplan.em.planning:apply",
 ]
 
