@@ -35,6 +35,7 @@ class Mesh:
     nodes: np.ndarray
     source_segments: tuple[int, ...]
     lengths: np.ndarray  # every segment's length, the closing gap last (mm)
+    coarse_bends: int = 0  # arcs meshed with fewer segments than the rule (too tight)
 
 
 def arc_polygon(arc: Arc3, n: int) -> np.ndarray:
@@ -98,8 +99,14 @@ class _Piece:
     sizes: np.ndarray | None = None
 
 
-def mesh_path(path: BendPath, h_max_mm: float, min_seg_per_180: int = 8) -> Mesh:
-    """Mesh `path` (which must have a feed gap) with segments <= `h_max_mm` (mm)."""
+def mesh_path(path: BendPath, h_max_mm: float, min_seg_per_180: int = 8,
+              min_len_mm: float = 0.0) -> Mesh:
+    """Mesh `path` (which must have a feed gap) with segments <= `h_max_mm` (mm).
+
+    `min_len_mm`: the shortest segment the solver accepts (about a wire radius). A bend
+    too tight for `min_seg_per_180` segments of that length gets fewer (at least two;
+    counted in `coarse_bends`); a straight shorter than it is merged into a neighbour.
+    """
     if path.gap_mm is None:
         raise FabplanError("the electrical model needs a feed gap on the path", field="gap",
                            value=None)
@@ -107,11 +114,15 @@ def mesh_path(path: BendPath, h_max_mm: float, min_seg_per_180: int = 8) -> Mesh
         raise FabplanError("the longest segment must be positive", field="h_max_mm",
                            value=h_max_mm)
     pieces: list[_Piece] = []
+    coarse = 0
     for prim in path.primitives():
         if prim.length <= 1e-9:
             continue
         if isinstance(prim, Arc3):
             n_min = max(2, math.ceil(min_seg_per_180 * prim.angle / math.pi - 1e-9))
+            if min_len_mm > 0 and prim.length / n_min < min_len_mm:
+                n_min = max(2, math.floor(prim.length / min_len_mm))
+                coarse += 1
             pieces.append(_Piece(prim, prim.length, n_min))
         else:
             pieces.append(_Piece(prim, prim.length))
@@ -133,7 +144,7 @@ def mesh_path(path: BendPath, h_max_mm: float, min_seg_per_180: int = 8) -> Mesh
             before = ring[idx - 1].last
             after = ring[(idx + 1) % m].first
             if isinstance(p.prim, Arc3):
-                cap = min(h_max_mm, 2 * before, 2 * after)
+                cap = max(min(h_max_mm, 2 * before, 2 * after), min_len_mm)
                 n = max(p.n_min, math.ceil(p.length / cap - 1e-9))
                 sizes = np.full(n, p.length / n)
             else:
@@ -153,6 +164,26 @@ def mesh_path(path: BendPath, h_max_mm: float, min_seg_per_180: int = 8) -> Mesh
             s = np.concatenate([[0.0], np.cumsum(p.sizes)]) / p.length
             pts = np.asarray(line.start) * (1 - s[:, None]) + np.asarray(line.end) * s[:, None]
         nodes.append(pts[1:])
-    all_nodes = np.vstack(nodes)
+    all_nodes = _merge_short(np.vstack(nodes), min_len_mm)
     lengths = np.concatenate([np.linalg.norm(np.diff(all_nodes, axis=0), axis=1), [gap_len]])
-    return Mesh(all_nodes, (len(all_nodes) - 1,), lengths)
+    return Mesh(all_nodes, (len(all_nodes) - 1,), lengths, coarse)
+
+
+def _merge_short(nodes: np.ndarray, min_len: float) -> np.ndarray:
+    """Drop interior nodes until no segment is shorter than `min_len` (the shorter
+    neighbour absorbs it); the end nodes (the gap's faces) stay."""
+    if min_len <= 0:
+        return nodes
+    pts = [p for p in nodes]
+    while len(pts) > 3:
+        seg = np.linalg.norm(np.diff(np.asarray(pts), axis=0), axis=1)
+        k = int(np.argmin(seg))
+        if seg[k] >= min_len * (1 - 1e-9):
+            break
+        # remove the node shared with the shorter neighbour, never an end node
+        left = seg[k - 1] if k > 0 else math.inf
+        right = seg[k + 1] if k + 1 < len(seg) else math.inf
+        drop = k if left <= right else k + 1
+        drop = min(max(drop, 1), len(pts) - 2)
+        del pts[drop]
+    return np.asarray(pts)

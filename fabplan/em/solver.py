@@ -46,6 +46,7 @@ ETA0 = MU0 * C0
 MIN_SEGMENT_RADII = 1.0  # shortest segment, in wire radii (reduced-kernel guard)
 MAX_KA = 0.1  # largest k a (wire circumference 1/60 of a wavelength)
 MAX_SEGMENT_WAVELENGTHS = 0.1  # longest segment at the solved frequency
+TIGHT_BEND_RADII = 3.0  # bends tighter than this many wire radii draw a warning
 SPACING_DIAMETERS = 3.0  # closer conductors (centre to centre) draw a warning
 DEFAULT_MAX_UNKNOWNS = 2000
 
@@ -180,32 +181,42 @@ class WireModel:
                 f"{MIN_SEGMENT_RADII:g} wire radius ({seg.radius[k] * 1e3:.3g} mm): the thin-wire "
                 "kernel is not valid there; use fewer, longer segments or a wider feed gap",
                 field="segment length", value=round(float(seg.length[k]) * 1e3, 4))
-        # conductors close together (not neighbours along the wire)
-        n = self.n_seg
-        if n < 3:
+        # conductors close together (not neighbours along the wire): sample the axis
+        from scipy.spatial import cKDTree
+
+        total = float(seg.length.sum())
+        step = max(float(seg.radius.min()), total / 20000)
+        counts = np.maximum(1, np.ceil(seg.length / step).astype(int))
+        idx = np.repeat(np.arange(self.n_seg), counts)
+        frac = np.concatenate([(np.arange(c) + 0.5) / c for c in counts])
+        pts = seg.start[idx] + seg.direction[idx] * (seg.length[idx] * frac)[:, None]
+        along = (np.cumsum(seg.length) - seg.length)[idx] + seg.length[idx] * frac
+        rad = seg.radius[idx]
+        reach = SPACING_DIAMETERS * 2 * float(seg.radius.max())
+        pairs = cKDTree(pts).query_pairs(reach, output_type="ndarray")
+        if len(pairs) == 0:
             return
-        d = segment_distance(seg.start[:, None], seg.end[:, None], seg.start[None, :],
-                             seg.end[None, :])
-        centre = np.cumsum(seg.length) - seg.length / 2
-        along = np.abs(centre[:, None] - centre[None, :])
+        i, j = pairs[:, 0], pairs[:, 1]
+        dist = np.linalg.norm(pts[i] - pts[j], axis=1)
+        apart = np.abs(along[i] - along[j])
         if self.closed:
-            along = np.minimum(along, seg.length.sum() - along)
-        along -= (seg.length[:, None] + seg.length[None, :]) / 2
-        dia = seg.radius[:, None] + seg.radius[None, :]  # sum of radii = one diameter if equal
-        # a bend of radius R keeps chord >= (2/pi) x arc: closer than that is another conductor
-        other = along > (math.pi / 2) * np.maximum(d, SPACING_DIAMETERS * dia) + 1e-12
-        touching = other & (d <= dia * (1 + 1e-9))
+            apart = np.minimum(apart, total - apart)
+        dia = rad[i] + rad[j]
+        # along one bend the chord is at least 2/pi of the arc: closer is another conductor
+        other = apart > (math.pi / 2) * np.maximum(dist, SPACING_DIAMETERS * dia) + 2 * step
+        touching = other & (dist <= dia * (1 + 1e-9))
         if np.any(touching):
-            i, j = np.argwhere(touching)[0]
-            raise FabplanError(f"segments {i} and {j} touch or cross ({d[i, j] * 1e3:.3g} mm "
-                               "apart, centre to centre): separate the conductors",
-                               field="geometry", value=round(float(d[i, j]) * 1e3, 4))
-        close = other & (d < SPACING_DIAMETERS * dia)
+            k = int(np.argmax(touching))
+            raise FabplanError(f"segments {idx[i[k]]} and {idx[j[k]]} touch or cross "
+                               f"({dist[k] * 1e3:.3g} mm apart, centre to centre): separate "
+                               "the conductors", field="geometry",
+                               value=round(float(dist[k]) * 1e3, 4))
+        close = other & (dist < SPACING_DIAMETERS * dia)
         if np.any(close):
-            i, j = np.argwhere(close)[0]
+            k = int(np.argmax(close))
             self.findings.append(Finding(
                 "em-conductors-close", "warning",
-                f"conductors {d[i, j] * 1e3:.3g} mm apart centre to centre, under "
+                f"conductors {dist[k] * 1e3:.3g} mm apart centre to centre, under "
                 f"{SPACING_DIAMETERS:g} diameters: the thin-wire model ignores the proximity "
                 "effect there and the impedance is less certain"))
 
@@ -477,7 +488,8 @@ def path_model(path: "BendPath", radius_mm: float, *, f_max_hz: float,
     if path.gap_mm is None:
         raise FabplanError("the electrical model needs a feed gap on the path", field="gap",
                            value=None)
-    mesh = mesh_path(path, lam_mm / seg_per_wavelength, min_seg_per_180)
+    mesh = mesh_path(path, lam_mm / seg_per_wavelength, min_seg_per_180,
+                     MIN_SEGMENT_RADII * radius_mm)
     unknowns = len(mesh.nodes)
     if unknowns > max_unknowns:
         raise FabplanError(f"the mesh needs {unknowns} unknowns, more than the cap of "
@@ -487,12 +499,13 @@ def path_model(path: "BendPath", radius_mm: float, *, f_max_hz: float,
                        resistivity_ohm_m=resistivity_ohm_m, tube_wall_mm=tube_wall_mm,
                        lossless_segments=mesh.source_segments, ground_z_mm=ground_z_mm,
                        max_unknowns=max_unknowns)
-    for b in path.bends:
-        if b.radius_mm < 2 * radius_mm:
-            model.findings.append(Finding(
-                "em-tight-bend", "warning",
-                f"a bend of {b.radius_mm:.3g} mm centreline radius is under two wire radii: "
-                "the thin-wire model is less certain there"))
-            break
+    tight = [b.radius_mm for b in path.bends if b.radius_mm < TIGHT_BEND_RADII * radius_mm]
+    if tight or mesh.coarse_bends:
+        r = min(tight) if tight else min(b.radius_mm for b in path.bends)
+        model.findings.append(Finding(
+            "em-tight-bend", "warning",
+            f"a bend of {r:.3g} mm centreline radius is under {TIGHT_BEND_RADII:g} wire radii: "
+            "the thin-wire model treats it with fewer, wire-radius-long segments and is less "
+            "certain there"))
     model.mesh = mesh  # type: ignore[attr-defined]
     return model
