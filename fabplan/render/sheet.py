@@ -89,6 +89,13 @@ class _Ctx:
             return f"{format_inches(mm, self.den)} ({format_mm(mm)})"
         return f"{format_mm(mm)} ({format_inches(mm, self.den)})"
 
+    def L2(self, mm: float):
+        """Both units on two lines of a right-aligned table cell."""
+        from reportlab.platypus import Paragraph
+
+        first, second = self.L(mm).split(" (", 1)
+        return Paragraph(f"{_esc(first)}<br/>({_esc(second)}", self.cellr)
+
     def p(self, text: str, style=None):
         from reportlab.platypus import Paragraph
 
@@ -134,17 +141,21 @@ def _title(ctx: _Ctx) -> list:
     plan = ctx.plan
     d = plan.design
     total = sum(e.quantity for e in plan.elements)
-    rows = [["Project", d.project],
-            ["Design file", Path(d.source).name],
-            ["Elements", f"{len(plan.elements)} kind(s), {total} piece(s) in all"],
-            ["Stock", plan.stock.description],
-            ["Shop units", f"{'inches to 1/' + str(ctx.den) if ctx.unit == 'in' else 'mm'} "
-                           f"first, the other in brackets; kerf {ctx.L(d.shop.kerf_mm)}"],
-            ["Made by", f"fabplan {__version__}"]]
+    units = (f"inches to 1/{ctx.den} first, mm in brackets" if ctx.unit == "in"
+             else f"mm first, inches (1/{ctx.den}) in brackets")
+    rows = [["Project", d.project, "", ""],
+            ["Design file", Path(d.source).name, "Made by", f"fabplan {__version__}"],
+            ["Elements", f"{len(plan.elements)} kind(s), {total} piece(s)", "Shop units", units],
+            ["Stock", plan.stock.description, "Saw kerf", ctx.L(d.shop.kerf_mm)]]
     if d.notes:
-        rows.insert(1, ["Notes", d.notes])
+        rows.insert(1, ["Notes", d.notes, "", ""])
     out = [ctx.p(f"Build sheet: {d.project}", ctx.h1)]
-    out += ctx.table(["item", "value"], rows, [0.2, 0.8])
+    out += ctx.table(["item", "value", "item", "value"], rows, [0.13, 0.42, 0.12, 0.33])
+    tbl = out[-1]
+    from reportlab.platypus import TableStyle
+
+    tbl.setStyle(TableStyle([("SPAN", (1, i), (3, i)) for i, r in enumerate(rows, 1)
+                             if r[2] == ""]))
     out.append(Spacer(1, 4))
     out.append(ctx.p("Read it in order: cut, mark from the centre of the stock, bend in the "
                      "order given, check against the drawing. Lengths are along the stock's "
@@ -162,16 +173,16 @@ def _stock(ctx: _Ctx) -> list:
     else:
         size = f"strip {format_mm(prof.width_mm, 2)} x {format_mm(prof.thickness_mm, 2)}"
     m = ctx.plan.design.stock.material
-    rows = [["Stock", s.description, ""],
-            ["Section", size, s.source],
+    rows = [["Section", size, s.source],
             ["Material", s.material_name, s.material_source],
-            ["Density", f"{m.density_kg_m3:g} kg/m3", ""],
-            ["Young's modulus", f"{m.youngs_modulus_mpa / 1000:g} GPa", ""],
-            ["Yield strength", f"{m.yield_mpa:g} MPa", ""],
-            ["Resistivity", f"{m.resistivity_ohm_m * 1e8:.2f} micro-ohm cm", ""],
+            ["Properties", f"density {m.density_kg_m3:g} kg/m3; Young's modulus "
+                           f"{m.youngs_modulus_mpa / 1000:g} GPa; yield {m.yield_mpa:g} MPa; "
+                           f"resistivity {m.resistivity_ohm_m * 1e8:.2f} micro-ohm cm",
+             "as for the material"],
             ["Mass per metre", f"{s.mass_per_m_kg * 1000:.1f} g/m", "from section and density"],
-            ["K-factor", f"{s.k_factor:g} (neutral axis position in a bend, 0.5 = centreline)",
-             ""]]
+            ["K-factor", f"{s.k_factor:g} (where the neutral axis lies in a bend; 0.5 = on the "
+                         "centreline)", "the design" if ctx.plan.design.stock.k_factor_given
+             else "default for round stock"]]
     out = [ctx.p("Stock and material", ctx.h2)]
     out += ctx.table(["property", "value (unit)", "source"], rows, [0.2, 0.38, 0.42])
     return out
@@ -191,14 +202,14 @@ def _stock_piece(ctx: _Ctx, e) -> str:
 def _cut_list(ctx: _Ctx) -> list:
     rows = []
     for e in ctx.plan.elements:
-        gap = "-" if e.gap_mm is None else ctx.L(e.gap_mm)
-        rows.append([e.name, str(e.quantity), ctx.L(e.developed_length_mm), ctx.L(e.trim_mm),
-                     ctx.L(e.cut_length_mm), gap, f"{e.mass_kg * 1000:.1f}",
+        gap = "-" if e.gap_mm is None else ctx.L2(e.gap_mm)
+        rows.append([e.name, str(e.quantity), ctx.L2(e.developed_length_mm), ctx.L2(e.trim_mm),
+                     ctx.L2(e.cut_length_mm), gap, f"{e.mass_kg * 1000:.1f}",
                      _stock_piece(ctx, e)])
     out = [ctx.p("Cut list", ctx.h2)]
     out += ctx.table(["element", "qty", "developed length", "trim per end", "cut length",
                       "feed gap (not in length)", "mass per piece g", "from stock"], rows,
-                     [0.15, 0.05, 0.13, 0.12, 0.14, 0.12, 0.09, 0.20], "lrrrrrrl",
+                     [0.2, 0.05, 0.12, 0.11, 0.12, 0.12, 0.09, 0.19], "lrrrrrrl",
                      caption="Lengths in inches (tape measure) and millimetres; mass in grams. "
                              "Cut length = developed length + trim at both ends.")
     return out
