@@ -192,3 +192,78 @@ def test_the_templates_commented_electrical_table_is_valid():
     assert isinstance(s.chain.matching, CoaxBalun) and s.chain.feed_line is not None
     assert s.target_hz == 440e6 and s.reference_ohm == 200.0 and s.power_w == 50.0
     assert not math.isnan(s.chain.feed_line.matched_loss_db(440e6))
+
+
+# -- end to end, with the real method-of-moments solver -------------------------------------------
+def test_tune_writes_a_design_whose_least_swr_is_on_target(run_cli, write_design, tmp_path):
+    from fabplan.design import load_design
+    from fabplan.plan import make_plan
+
+    p = write_design(text())
+    out = tmp_path / "tuned.toml"
+    proc = run_cli("tune", p, "--target", "440 MHz", "-o", out, check_exit=0)
+    assert f"wrote {out}" in proc.stdout and "CAUTION: RF exposure" in proc.stdout
+    assert "cut length" in proc.stdout and "bend 1 start" in proc.stdout
+    # only the side changed, to a length string
+    old, new = p.read_text().split("\n"), out.read_text().split("\n")
+    changed = [(a, b) for a, b in zip(old, new) if a != b]
+    assert len(old) == len(new) and len(changed) == 1 and changed[0][1].startswith("side = ")
+    plan = make_plan(load_design(out))
+    sweep = plan.elements[0].electrical.sweep
+    # the acceptance figure: least SWR within 0.1 % of the target after tuning
+    assert sweep.min_swr_hz == pytest.approx(440e6, rel=1e-3)
+    assert not any(f.code == "em-off-target" for f in plan.findings)
+
+
+def test_sweep_prints_the_figures_and_writes_every_point(run_cli, write_design, tmp_path):
+    import csv
+    import dataclasses
+
+    from fabplan.design import load_design
+    from fabplan.em import planning
+    from fabplan.plan import make_plan
+
+    p = write_design(text())
+    out = tmp_path / "sweep.csv"
+    proc = run_cli("sweep", p, "--from", "400 MHz", "--to", "440 MHz", "--step", "2 MHz",
+                   "--csv", out, check_exit=0)
+    for words in ("least SWR", "resonance (X = 0)", "bandwidth SWR < 1.5", "bandwidth SWR < 2",
+                  "SWR term", "SWR sys", "+-0.5 %", "RF exposure", "surroundings"):
+        assert words in proc.stdout
+    rows = list(csv.DictReader(out.read_text(encoding="utf-8").splitlines()))
+    assert len(rows) == 21 and float(rows[0]["f_hz"]) == 400e6
+    assert float(rows[-1]["f_hz"]) == 440e6
+    # the CSV holds the figures the electrical stage computes in-process for that sweep
+    d = load_design(p)
+    settings = dataclasses.replace(d.electrical, sweep_from_hz=400e6, sweep_to_hz=440e6,
+                                   sweep_step_hz=2e6)
+    plan = make_plan(dataclasses.replace(d, electrical=None))
+    ee, _ = planning.check_element(plan, plan.elements[0], settings)
+    assert [float(r["r_ohm"]) for r in rows] == pytest.approx([z.real for z in ee.sweep.z_ohm],
+                                                              rel=1e-6)
+    assert [float(r["swr_system"]) for r in rows] == pytest.approx(list(ee.sweep.swr_system),
+                                                                   rel=1e-5)
+    assert f"{ee.sweep.min_swr:.2f} at {ee.sweep.min_swr_hz / 1e6:.3f} MHz" in proc.stdout
+
+
+def test_plan_json_has_the_electrical_sections(run_cli, write_design):
+    p = write_design(text())
+    proc = run_cli("plan", p, "--json", check_exit=0)
+    d = json.loads(proc.stdout)
+    el = d["elements"][0]["electrical"]
+    assert el["target_hz"] == 440e6 and el["unknowns"] > 10
+    assert len(el["points"]) == 81 and el["uncertainty_frac"] == 0.005
+    assert el["min_swr_hz"] > 0 and el["released_radii"] is True
+    top = d["electrical"]
+    # common practice, no source: the loop is half a wavelength x velocity factor:
+    # 299792458 / 440e6 / 2 x 0.66 = 224.844 mm
+    assert top["balun_loop_cut_length_mm"] == pytest.approx(224.844, abs=1e-3)
+    assert top["real_ground_modelled"] is False and len(top["cautions"]) == 2
+
+
+def test_tune_from_a_measurement(run_cli, write_design):
+    p = write_design(text())
+    proc = run_cli("tune", p, "--measured", "430 MHz", "--for", "resonance", check_exit=0)
+    out = proc.stdout
+    assert "model sensitivity" in out and "proportional rule" in out and "Trust the" in out
+    assert "kHz per mm" in out
