@@ -46,7 +46,7 @@ MARGIN_MM = 10.0  # unprintable edge most office printers leave, and some
 FOOTER_MM = 26.0  # band for the tile label, the calibration bars and the instruction
 OVERLAP_MM = 15.0  # tiles overlap by this much; alignment crosses sit in the overlap
 CROSS_MM = 10.0  # arm length of an alignment cross
-GUTTER_MM = 12.0  # space round the drawing inside the layout
+GUTTER_MM = 8.0  # space round the drawing inside the layout
 STRIP_TICK_MM = 7.0  # tick beyond each side of the strip
 CENTRE_TICK_MM = 12.0
 
@@ -225,11 +225,13 @@ def _strip(e, den: int) -> tuple[list, tuple]:
         ext = CENTRE_TICK_MM if m.kind == "centre" else STRIP_TICK_MM
         items.append(Item("line", ((x, -half - ext), (x, half + ext)),
                           width=0.8 if m.kind == "centre" else 0.5))
-        words = f"{mid}  {m.label}   {side_text(m.from_centre_mm, den)}"
-        # read upwards, centred on the tick
-        items.append(Item("text", (x + 7 * 0.35 / PT_PER_MM, half + ext + 1.5, words), size=7,
-                          angle=90, bold=m.kind == "centre"))
-        top = max(top, half + ext + 1.5 + len(words) * 7 * 0.5 / PT_PER_MM)
+        # two lines reading upwards, one each side of the tick
+        lines = (f"{mid}  {m.label}", side_text(m.from_centre_mm, den))
+        for n, words in enumerate(lines):
+            items.append(Item("text", (x - 0.5 if n == 0 else x + 0.6 + 7 * 0.75 / PT_PER_MM,
+                                       half + ext + 1.5, words), size=7, angle=90,
+                              bold=m.kind == "centre"))
+            top = max(top, half + ext + 1.5 + len(words) * 7 * 0.5 / PT_PER_MM)
     items.append(Item("text", (a, -half - STRIP_TICK_MM - 6,
                                f"Marking strip: lay the straight stock on the grey bar, centre "
                                f"on M{_centre_index(e)}, and mark at each tick. Cut length "
@@ -264,13 +266,17 @@ def _bent(e, geo: ElementGeometry, den: int) -> tuple[list, tuple]:
         pts += prim_points(prim)
     half = e.conductor_diameter_mm / 2
     if geo.planar:
+        mx, my = (geo.bbox[0] + geo.bbox[2]) / 2, (geo.bbox[1] + geo.bbox[3]) / 2
         for mid, m, (px, py), (tx, ty) in geo.marks:
             ext = half + 4
             items.append(Item("line", ((px - ty * ext, py + tx * ext),
                                        (px + ty * ext, py - tx * ext)), width=0.5))
-            items.append(Item("text", (px - ty * (ext + 1.5), py + tx * (ext + 1.5), mid),
+            nx, ny = -ty, tx  # label on the outside of the element
+            if (px - mx) * nx + (py - my) * ny < 0:
+                nx, ny = -nx, -ny
+            items.append(Item("text", (px + nx * (ext + 2.5), py + ny * (ext + 2.5), mid),
                               size=6.5, anchor="middle"))
-            pts.append((px - ty * (ext + 4), py + tx * (ext + 4)))
+            pts.append((px + nx * (ext + 5), py + ny * (ext + 5)))
     forming = e.forming
     if forming is not None:
         for f in forming.formers:
@@ -278,8 +284,9 @@ def _bent(e, geo: ElementGeometry, den: int) -> tuple[list, tuple]:
             items.append(Item("circle", (cx, cy, f.radius_mm), width=0.6, dash=(3, 2)))
             items.append(Item("line", ((cx - 3, cy), (cx + 3, cy)), width=0.3))
             items.append(Item("line", ((cx, cy - 3), (cx, cy + 3)), width=0.3))
-            items.append(Item("text", (cx, cy - 2.8 - 2.5,
-                                       f"former {f.label}: {format_mm(2 * f.radius_mm)} dia"),
+            items.append(Item("text", (cx, cy + 4.5, f"former {f.label}"), size=6,
+                              anchor="middle"))
+            items.append(Item("text", (cx, cy - 4.5, f"{format_mm(2 * f.radius_mm)} dia"),
                               size=6, anchor="middle"))
             pts += [(cx - f.radius_mm, cy - f.radius_mm), (cx + f.radius_mm, cy + f.radius_mm)]
         for (f1, f2), gap in zip(zip(forming.formers, forming.formers[1:]),
