@@ -7,6 +7,8 @@ Prints figures; not a test. Run from the project's root:
 from __future__ import annotations
 
 import dataclasses
+import os
+import resource
 import subprocess
 import sys
 import time
@@ -21,6 +23,8 @@ def main() -> None:
     from fabplan.em import tuning
     from fabplan.plan import make_plan
 
+    print(f"load average (1 min): {os.getloadavg()[0]:.2f} on {os.cpu_count()} CPUs; wall times "
+          "stretch on a busy machine, CPU times much less")
     t0 = time.perf_counter()
     design = load_design(EXAMPLE)
     settings = design.electrical
@@ -28,20 +32,24 @@ def main() -> None:
         sys.exit(f"{EXAMPLE} has no [electrical] table")
     plan = make_plan(dataclasses.replace(design, electrical=None))
     element = tuning.fed_element(plan, None)
-    t1 = time.perf_counter()
+    t1, c1 = time.perf_counter(), time.process_time()
     result = tuning.tune(plan, element, settings, settings.target_hz)
-    t2 = time.perf_counter()
+    t2, c2 = time.perf_counter(), time.process_time()
     print(f"element: {element.name}; {result.key} {result.old_value_mm:.2f} -> "
           f"{result.new_value_mm:.2f} mm; {result.old_hz / 1e6:.3f} -> {result.new_hz / 1e6:.4f} MHz")
     print(f"secant steps: {result.iterations}; models built: {result.models_built}")
-    print(f"load + plan (no electrical): {t1 - t0:.2f} s; tuning: {t2 - t1:.2f} s")
+    print(f"load + plan (no electrical): {t1 - t0:.2f} s; tuning: {t2 - t1:.2f} s wall, "
+          f"{c2 - c1:.2f} s CPU")
 
     for args in (["tune", str(EXAMPLE)], ["--help"]):
+        before = resource.getrusage(resource.RUSAGE_CHILDREN)
         t = time.perf_counter()
         proc = subprocess.run([sys.executable, "-m", "fabplan", *args], capture_output=True,
                               text=True)
         took = time.perf_counter() - t
-        print(f"fabplan {' '.join(args[:1])}: {took:.2f} s wall, exit {proc.returncode}"
+        after = resource.getrusage(resource.RUSAGE_CHILDREN)
+        cpu = (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
+        print(f"fabplan {args[0]}: {took:.2f} s wall, {cpu:.2f} s CPU, exit {proc.returncode}"
               + ("  (target: under 2 s)" if args[0] == "tune" else ""))
 
 

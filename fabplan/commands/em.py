@@ -69,6 +69,7 @@ def _csv_text(rows: list[tuple]) -> str:
 def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None,
           element_name: str | None, csv_path: Path | None, force: bool) -> None:
     """Sweep each fed element's impedance and SWR through the matching."""
+    import contextlib
     import dataclasses
     import math
 
@@ -98,8 +99,9 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
             fed_element(plan, None)  # raises: nothing to sweep
     n = len(settings.frequencies()) * len(elements)
     out, rows, found = [], [], []
-    bar = click.progressbar(length=n, label="sweeping", file=sys.stderr)
     show = n >= PROGRESS_MIN_POINTS
+    bar = (click.progressbar(length=n, label="sweeping", file=sys.stderr) if show
+           else contextlib.nullcontext())
     with bar:
         for e in elements:
             ee, findings = planning.check_element(plan, e, settings,
@@ -171,7 +173,8 @@ def _measured_text(r, d, settings) -> list[str]:
     from ..render.report import table
     from ..units import format_frequency
 
-    lines = [f"First article {r.element!r}: least SWR measured at "
+    what = "resonance (X = 0)" if r.tune_for == "resonance" else "least SWR"
+    lines = [f"First article {r.element!r}: {what} measured at "
              f"{format_frequency(r.measured_hz)}; target {format_frequency(r.target_hz)}",
              f"  the model predicts {format_frequency(r.model_hz)} for the element as designed "
              "(+-0.5 %)",

@@ -40,6 +40,9 @@ __all__ = ["TuneResult", "MarkChange", "MeasuredResult", "feature_hz", "tune",
 TOLERANCE_FRAC = 2e-5  # tuning stops when the model's frequency is this close to the target
 MAX_ITERATIONS = 12
 BRACKET_FRAC = 0.04  # the first search for the frequency: +-4 % around the expected one
+# beyond this gap between the measurement and the model, the model's sensitivity is
+# not trusted over the proportional rule
+MODEL_TRUST_FRAC = 0.03
 # dimension keys a loop's governing length (perimeter, circumference) is made of
 _SCALED_KEYS = ("side", "width", "height", "base", "legs", "leg", "diameter", "circumference",
                 "perimeter")
@@ -82,6 +85,7 @@ class MeasuredResult:
 
     element: str
     key: str
+    tune_for: str
     value_mm: float
     measured_hz: float
     target_hz: float
@@ -157,7 +161,8 @@ class _Evaluator:
         self.key, self.value = self.shape.governing(self.params)
         self.models = 0
 
-    def __call__(self, value_mm: float, expect_hz: float, span_frac: float = BRACKET_FRAC) -> float:
+    def __call__(self, value_mm: float, expect_hz: float, span_frac: float = BRACKET_FRAC,
+                 points: int = 9) -> float:
         params = self.shape.with_governing(self.params, value_mm)
         problems = [f for f in self.shape.problems(params, self.plan.stock.profile.outer_diameter_mm)
                     if f.severity == "error"]
@@ -169,7 +174,7 @@ class _Evaluator:
         f_max = max(self.settings.sweep_to_hz, expect_hz * (1 + span_frac))
         model = self.factory(self.plan, self.element, self.settings, f_max, params)
         self.models += 1
-        return feature_hz(model, self.settings, self.tune_for, expect_hz, span_frac)
+        return feature_hz(model, self.settings, self.tune_for, expect_hz, span_frac, points)
 
 
 def _core_element(plan, element, params):
@@ -188,7 +193,7 @@ def tune(plan, element, settings: ElectricalSettings, target_hz: float, *,
     f0 = ev(x0, _first_guess_hz(element, target_hz))
     xs, fs = [x0], [f0]
     x1 = proportional_length(x0, f0, target_hz)
-    x, f = x1, ev(x1, target_hz, 0.015)
+    x, f = x1, ev(x1, target_hz, 0.015, 5)
     xs.append(x)
     fs.append(f)
     iterations = 1
@@ -201,12 +206,12 @@ def tune(plan, element, settings: ElectricalSettings, target_hz: float, *,
             x = proportional_length(xb, fb, target_hz)
         else:
             x = xb + (target_hz - fb) * (xb - xa) / (fb - fa)
-        f = ev(x, target_hz, 0.01)
+        f = ev(x, target_hz, 0.01, 5)
         xs.append(x)
         fs.append(f)
         iterations += 1
     new_params = ev.shape.with_governing(ev.params, x)
-    old_core = _core_element(plan, element, ev.params)
+    old_core = element
     new_core = _core_element(plan, element, new_params)
     return TuneResult(element.name, ev.key, tune_for, target_hz, x0, x, f0, f, iterations,
                       ev.models, new_params, old_core.cut_length_mm, new_core.cut_length_mm,
@@ -265,11 +270,11 @@ def from_measurement(plan, element, settings: ElectricalSettings, measured_hz: f
                            "no sensible correction", field="tune")
     d_model = (target_hz - measured_hz) / sens
     d_prop = proportional_length(x0, measured_hz, target_hz) - x0
-    core = _core_element(plan, element, ev.params)
+    core = element
     cut_model = _core_element(plan, element, ev.shape.with_governing(ev.params, x0 + d_model))
     cut_prop = _core_element(plan, element, ev.shape.with_governing(ev.params, x0 + d_prop))
     trust, advice = _advice(measured_hz, target_hz, f0, d_model, d_prop)
-    return MeasuredResult(element.name, ev.key, x0, measured_hz, target_hz, f0, sens, d_model,
+    return MeasuredResult(element.name, ev.key, tune_for, x0, measured_hz, target_hz, f0, sens, d_model,
                           d_prop, cut_model.cut_length_mm - core.cut_length_mm,
                           cut_prop.cut_length_mm - core.cut_length_mm, trust, advice)
 
@@ -279,12 +284,19 @@ def _advice(measured: float, target: float, model: float, d_model: float,
     miss = measured / model - 1
     step = measured / target - 1
     parts = []
-    if abs(miss) <= 0.03:
+    if abs(miss) <= UNCERTAINTY_FRAC:
         trust = "model"
-        parts.append(f"the article measured {100 * miss:+.2f} % from the model's prediction, so "
-                     "it is the geometry the model describes: trust the model's sensitivity, "
-                     "which knows that the ends, feed gap and spacing do not change with the "
-                     "length (the proportional rule scales them too)")
+        parts.append(f"the article measured {100 * miss:+.2f} % from the model's prediction, "
+                     "within the model's uncertainty: trust the model's sensitivity, which "
+                     "knows that the ends, feed gap and spacing do not change with the length "
+                     "(the proportional rule scales them too)")
+    elif abs(miss) <= MODEL_TRUST_FRAC:
+        trust = "model"
+        parts.append(f"the article measured {100 * miss:+.2f} % from the model's prediction: "
+                     "the absolute figure is off, but near enough that the model's sensitivity "
+                     "(how fast the frequency moves with the length) still holds, and it knows "
+                     "that the ends, feed gap and spacing do not change with the length (the "
+                     "proportional rule scales them too)")
     else:
         trust = "proportional"
         parts.append(f"the article measured {100 * miss:+.2f} % from the model's prediction, "
