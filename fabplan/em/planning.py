@@ -320,6 +320,10 @@ def apply(plan, *, settings: ElectricalSettings | None = None,
     findings = list(plan.findings)
     for e in plan.elements:
         if e.gap_mm is None:
+            findings.append(Finding("em-not-fed", "info",
+                                    "no feed gap: the electrical check covers fed elements only "
+                                    "(a parasitic element's effect on the fed one is not "
+                                    "modelled)", e.name))
             elements.append(e)
             continue
         try:

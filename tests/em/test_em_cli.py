@@ -267,3 +267,52 @@ def test_tune_from_a_measurement(run_cli, write_design):
     out = proc.stdout
     assert "model sensitivity" in out and "proportional rule" in out and "Trust the" in out
     assert "kHz per mm" in out
+
+
+def _plan(extra: str = "", **kw):
+    from fabplan.plan import make_plan
+
+    return make_plan(parse_design(text(extra, **kw)))
+
+
+def test_ground_conductor_and_feed_line_reach_the_model():
+    free = _plan()
+    ground = _plan('ground = "perfect"\nground_height = "170 mm"')  # a quarter wave below
+    e0, e1 = free.elements[0].electrical, ground.elements[0].electrical
+    assert "perfect ground plane 0.170 m below" in e1.extra["geometry"]
+    assert e1.extra["ground_height_mm"] == 170.0 and e0.extra["ground"] == "free-space"
+    # not a check against a source (the solver's tests do image theory): only that the
+    # ground reaches the model and changes the impedance
+    i = len(e0.sweep.freq_hz) // 2
+    assert abs(e1.sweep.z_ohm[i] - e0.sweep.z_ohm[i]) > 5.0
+    # conductor loss: a perfect conductor radiates everything; stainless loses more
+    # than copper (resistivity 72e-8 vs 2.03e-8 ohm m, trade notes' table)
+    perfect = _plan("perfect_conductor = true").elements[0].electrical
+    steel = _plan("resistivity = 72e-8").elements[0].electrical
+    assert perfect.sweep.efficiency == pytest.approx(1.0, abs=1e-9)
+    assert perfect.extra["resistivity_ohm_m"] is None
+    assert steel.sweep.efficiency < e0.sweep.efficiency < 1.0
+    assert e0.extra["resistivity_ohm_m"] == 2.03e-8  # C12200 tube, from the material
+    assert e0.extra["tube_wall_mm"] == pytest.approx(0.030 * 25.4)
+    # a lossy feed line lowers the SWR the radio sees
+    lossy = _plan("\n[electrical.feed_line]\nlength = \"30 m\"\nimpedance = 50\n"
+                  "velocity_factor = 0.66\nloss_db_per_100m = 30\nloss_frequency = \"440 MHz\"\n")
+    assert lossy.electrical.feed_line_loss_db == pytest.approx(9.0)
+    assert max(lossy.elements[0].electrical.sweep.swr_system) < max(e0.sweep.swr_system)
+
+
+def test_an_element_without_a_feed_gap_is_named_not_checked():
+    hairpin = """
+[[element]]
+name = "reflector"
+shape = "hairpin"
+leg = "6 in"
+centre_spacing = "1 1/4 in"
+"""
+    t = text().replace("\n[electrical]", hairpin + "\n[electrical]", 1)
+    from fabplan.plan import make_plan
+
+    plan = make_plan(parse_design(t))
+    assert plan.element("reflector").electrical is None
+    assert plan.element("70 cm").electrical is not None
+    assert any(f.code == "em-not-fed" and f.element == "reflector" for f in plan.findings)
