@@ -105,19 +105,24 @@ def template(design: Path, output: Path, paper: str, force: bool) -> None:
 
 
 def _sweep_csv(plan) -> str | None:
-    """Each element's sweep as CSV rows (Hz, ohm, SWR), or None without one."""
-    rows = []
+    """Each element's sweep as CSV (the columns of `fabplan sweep --csv`: Hz, ohm,
+    SWR), or None when the electrical check has not run."""
+    import csv
+    import io
+
+    buf = io.StringIO()
+    w = csv.writer(buf, lineterminator="\n")
+    w.writerow(["element", "f_hz", "r_ohm", "x_ohm", "swr_terminals", "swr_system"])
+    n = 0
     for e in plan.elements:
-        el = e.electrical
-        if el is None:
+        if e.electrical is None:
             continue
-        sw = el.sweep
+        sw = e.electrical.sweep
         for f, z, s_t, s_s in zip(sw.freq_hz, sw.z_ohm, sw.swr_terminals, sw.swr_system):
-            rows.append(f'"{e.name}",{f:.1f},{z.real:.4f},{z.imag:.4f},{s_t:.4f},{s_s:.4f}')
-    if not rows:
-        return None
-    head = "element,freq_hz,r_ohm,x_ohm,swr_terminals,swr_system"
-    return "\n".join([head, *rows]) + "\n"
+            w.writerow([e.name, f"{f:.1f}", f"{z.real:.4f}", f"{z.imag:.4f}", f"{s_t:.5f}",
+                        f"{s_s:.5f}"])
+            n += 1
+    return buf.getvalue() if n else None
 
 
 def _jig_files(plan) -> dict[str, bytes]:

@@ -49,6 +49,8 @@ CROSS_MM = 10.0  # arm length of an alignment cross
 GUTTER_MM = 8.0  # space round the drawing inside the layout
 STRIP_TICK_MM = 7.0  # tick beyond each side of the strip
 CENTRE_TICK_MM = 12.0
+TOOL_TICK_MM = 16.0  # bender marks: dashed ticks below the strip
+LABEL_GAP_MM = 7.5  # least distance between neighbouring mark labels
 
 
 def paper_size(paper: str) -> tuple[float, float | None]:
@@ -219,26 +221,72 @@ def _strip(e, den: int) -> tuple[list, tuple]:
     a, b = -e.cut_length_mm / 2, e.cut_length_mm / 2
     items = [Item("rect", (a, -half, b - a, 2 * half), width=0.6, grey=0.0),
              Item("line", ((a - 8, 0), (b + 8, 0)), width=0.3, dash=(6, 2, 1, 2))]
-    top = half + STRIP_TICK_MM
-    for mid, m in zip(mark_ids(e), e.marks):
+    base = half + CENTRE_TICK_MM + 5  # labels start here, joined to their ticks by leaders
+    top = base
+    label_x = _spread([m.from_centre_mm for m in e.marks], LABEL_GAP_MM)
+    for mid, m, lx in zip(mark_ids(e), e.marks, label_x):
         x = m.from_centre_mm
         ext = CENTRE_TICK_MM if m.kind == "centre" else STRIP_TICK_MM
         items.append(Item("line", ((x, -half - ext), (x, half + ext)),
                           width=0.8 if m.kind == "centre" else 0.5))
-        # two lines reading upwards, one each side of the tick
+        items.append(Item("poly", (((x, half + ext), (lx, base - 2.5), (lx, base - 0.8)),),
+                          width=0.25, grey=0.35))
+        # two lines reading upwards, one each side of the leader
         lines = (f"{mid}  {m.label}", side_text(m.from_centre_mm, den))
         for n, words in enumerate(lines):
-            items.append(Item("text", (x - 0.5 if n == 0 else x + 0.6 + 7 * 0.75 / PT_PER_MM,
-                                       half + ext + 1.5, words), size=7, angle=90,
+            items.append(Item("text", (lx - 0.5 if n == 0 else lx + 0.6 + 7 * 0.75 / PT_PER_MM,
+                                       base, words), size=7, angle=90,
                               bold=m.kind == "centre"))
-            top = max(top, half + ext + 1.5 + len(words) * 7 * 0.5 / PT_PER_MM)
-    items.append(Item("text", (a, -half - STRIP_TICK_MM - 6,
-                               f"Marking strip: lay the straight stock on the grey bar, centre "
-                               f"on M{_centre_index(e)}, and mark at each tick. Cut length "
-                               f"{format_inches(e.cut_length_mm, den)} "
-                               f"({format_mm(e.cut_length_mm)}); stock "
-                               f"{format_mm(e.conductor_diameter_mm, 2)} wide."), size=8))
-    return items, (a - 8, -half - STRIP_TICK_MM - 9, b + 8, top)
+            top = max(top, base + len(words) * 7 * 0.5 / PT_PER_MM)
+    bottom = -half - STRIP_TICK_MM
+    tools = e.forming.tool_marks if e.forming is not None else ()
+    tool_x = _spread([t.from_centre_mm for t in tools], LABEL_GAP_MM / 2)
+    for t, lx in zip(tools, tool_x):
+        # where the pencil mark goes for a hand bender: below the strip, reading up
+        x = t.from_centre_mm
+        items.append(Item("line", ((x, -half), (x, -half - TOOL_TICK_MM)), width=0.8,
+                          dash=(1.5, 0.8)))
+        items.append(Item("poly", (((x, -half - TOOL_TICK_MM), (lx, -half - TOOL_TICK_MM - 2),
+                                    (lx, -half - TOOL_TICK_MM - 3)),), width=0.25, grey=0.35))
+        words = (f"T{t.step}  bend {t.bend_index}: to the tool's {t.tool_reference} mark, "
+                 f"bend to {t.bend_to_deg:.1f} deg")
+        items.append(Item("text", (lx + 7 * 0.35 / PT_PER_MM, -half - TOOL_TICK_MM - 3.5, words),
+                          size=7, angle=90, anchor="end"))
+        bottom = min(bottom, -half - TOOL_TICK_MM - 3.5 - len(words) * 7 * 0.5 / PT_PER_MM)
+    note = (f"Marking strip: lay the straight stock on the grey bar, centre on "
+            f"M{_centre_index(e)}, and mark at each tick. Cut length "
+            f"{format_inches(e.cut_length_mm, den)} ({format_mm(e.cut_length_mm)}); stock "
+            f"{format_mm(e.conductor_diameter_mm, 2)} wide.")
+    if tools:
+        note += " Dashed ticks T1, T2, ... below: bender marks, in bending order."
+    items.append(Item("text", (a, bottom - 6, note), size=8))
+    return items, (a - 8, bottom - 9, b + 8, top)
+
+
+def _spread(xs: list[float], gap: float) -> list[float]:
+    """Label positions near `xs` (mm) but at least `gap` apart: each run of labels
+    that would crowd is spread evenly about the middle of its marks."""
+    order = sorted(range(len(xs)), key=lambda i: xs[i])
+    groups: list[list[int]] = []
+    for i in order:
+        groups.append([i])
+        while len(groups) > 1:
+            a, b = groups[-2], groups[-1]
+            a_last = _group_pos(a, xs, gap)[-1]
+            b_first = _group_pos(b, xs, gap)[0]
+            if b_first - a_last >= gap - 1e-9:
+                break
+            groups[-2:] = [a + b]
+    out = list(xs)
+    for g in groups:
+        for i, x in zip(g, _group_pos(g, xs, gap)):
+            out[i] = x
+    return out
+
+
+def _group_pos(g: list[int], xs: list[float], gap: float) -> list[float]:
+    mid = sum(xs[i] for i in g) / len(g)
+    return [mid + (k - (len(g) - 1) / 2) * gap for k in range(len(g))]
 
 
 def _centre_index(e) -> int:
@@ -439,6 +487,8 @@ def draw_items(c, items: list, dx_pt: float, dy_pt: float,
             c.rotate(it.angle)
             if it.anchor == "middle":
                 c.drawCentredString(0, -it.size * 0.35, d[2])
+            elif it.anchor == "end":
+                c.drawRightString(0, 0, d[2])
             else:
                 c.drawString(0, 0, d[2])
             c.restoreState()

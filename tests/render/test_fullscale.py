@@ -255,3 +255,42 @@ def test_too_big_for_the_roll_is_bad_input(write_design):
     p = make_plan(load_design(write_design(text)))
     with pytest.raises(DesignError, match="does not fit"):
         template_pdf(p, "roll-610mm")
+
+
+def test_bender_marks_drawn_where_the_plan_puts_them(write_design):
+    """With a hand bender the forming stage gives pencil marks for the tool;
+    the template draws them (dashed, below the strip) at their distance from
+    the centre tick."""
+    from fabplan.render.fullscale import TOOL_TICK_MM
+
+    text = EXAMPLE.read_text()
+    cut = text.find("\n[electrical]")
+    text = (text[:cut] if cut > 0 else text) + (
+        '\n[forming]\nmethod = "bender"\nsquare_ends = true\n'
+        '[forming.bender]\nradius = "9/16 in"\nreference = "bend-start"\n')
+    p = make_plan(load_design(write_design(text)))
+    e = p.elements[0]
+    assert e.forming is not None and e.forming.tool_marks
+    centre = (e.conductor_diameter_mm + 2 * CENTRE_TICK_MM) * PT
+    with _open(template_pdf(p, "letter")) as pdf:
+        offset = _assemble(pdf)
+        tools = _global_lines(pdf, offset, lambda ln: _vertical(ln, TOOL_TICK_MM * PT))
+        mid = _global_lines(pdf, offset, lambda ln: _vertical(ln, centre))
+    assert len(mid) == 1
+    drawn = sorted((t[0] - mid[0][0]) / PT for t in tools)
+    planned = sorted(t.from_centre_mm for t in e.forming.tool_marks)
+    assert drawn == pytest.approx(planned, abs=0.1)  # within 0.1 mm on the paper
+
+
+@settings(max_examples=200, derandomize=True, deadline=None)
+@given(xs=st.lists(st.floats(-1000, 1000), min_size=1, max_size=30), gap=st.floats(1, 20))
+def test_mark_labels_never_crowd(xs, gap):
+    """Labels keep at least `gap` apart, keep the marks' order, and each crowd
+    stays centred on its marks (so the mean position is kept)."""
+    from fabplan.render.fullscale import _spread
+
+    out = _spread(xs, gap)
+    order = sorted(range(len(xs)), key=lambda i: xs[i])
+    placed = [out[i] for i in order]
+    assert all(b - a >= gap - 1e-6 for a, b in zip(placed, placed[1:]))
+    assert sum(out) / len(out) == pytest.approx(sum(xs) / len(xs), abs=1e-6)
