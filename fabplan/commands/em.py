@@ -244,6 +244,9 @@ def tune(design: Path, target: str | None, measured: str | None, tune_for: str |
             write_text(output, new_text, force)
             shown = ", ".join(f'{k} = "{v}"' for k, v in changes.items())
             lines += ["", f"wrote {output} ({shown})"]
+            if settings.target_hz is not None and settings.target_hz != target_hz:
+                lines.append(f"note: its [electrical] target is still "
+                             f"{settings.target_hz / 1e6:g} MHz; only the length was changed")
         else:
             lines += ["", "use -o NEW.toml to write the tuned design"]
     pe = plan_electrical(settings)

@@ -156,3 +156,14 @@ def test_direct_connection_and_chain_through_a_feed_line():
     # a lossy line makes the SWR at the radio lower than at the load
     assert lossy.swr_system(100.0, 146e6) < swr(100.0, 50.0)
     assert "feed line" in lossy.describe()
+
+
+@settings(max_examples=80, deadline=None, derandomize=True)
+@given(r=st.floats(1, 5000), x=st.floats(-5000, 5000), length=st.floats(1, 50_000),
+       vf=st.floats(0.5, 1.0))
+def test_lossless_line_keeps_the_swr(r, x, length, vf):
+    # source: Pozar, Microwave Engineering, sec. 2.3: on a lossless line |Gamma| and so
+    # the SWR are the same at every point; only the phase turns
+    line = Line(50.0, vf, length)
+    z = complex(r, x)
+    assert swr(line.input_impedance(z, 146e6), 50.0) == pytest.approx(swr(z, 50.0), rel=1e-6)

@@ -16,6 +16,8 @@ from types import SimpleNamespace
 
 import numpy as np
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 
 from fabplan.design import parse_design
 from fabplan.em import planning, tuning
@@ -342,3 +344,13 @@ material = "cu-c11000-annealed"
     p = dataclasses.replace(d.elements[0].params, length_mm=910.0)
     with pytest.raises(DesignError, match="by hand"):
         tuning.rewrite_design(text, d, "fd", p)
+
+
+@settings(max_examples=40, deadline=None, derandomize=True)
+@given(side=st.floats(200.0, 3000.0), units=st.sampled_from(["mm", "in"]))
+def test_rewrite_round_trips_any_length(side, units):
+    text, d = design(units=units)
+    p = dataclasses.replace(d.elements[0].params, length_mm=side)
+    new_text, _ = tuning.rewrite_design(text, d, "fd", p)
+    # the design file keeps the length to better than 0.01 mm
+    assert parse_design(new_text).elements[0].params.length_mm == pytest.approx(side, abs=0.01)
