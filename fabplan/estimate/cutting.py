@@ -205,7 +205,7 @@ class _Solver:
         counts = [len(g) for g in self.groups]
         caps = []
         for o in self.useful:
-            take, exact = _best_fill(self.gsize, counts, self.caps[o], budget=20_000)
+            take, exact = _best_fill(self.gsize, counts, self.caps[o], budget=5_000)
             caps.append(sum(t * s for t, s in zip(take, self.gsize)) if exact else self.caps[o])
         costs = [self.costs[o] for o in self.useful]
         total = sum(self.sizes)
@@ -360,7 +360,7 @@ class _Solver:
             bins[b][1].append(items[pos])
         return self.downsize(bins), bool(state["complete"])
 
-    def pattern_program(self, max_patterns: int = 4000,
+    def pattern_program(self, max_patterns: int = 1500,
                         max_sizes: int = 15) -> tuple[list[Bin] | None, bool]:
         """Few distinct lengths, many pieces: an integer program over the cutting
         patterns (counts of each length in one stock piece), solved exactly by
@@ -382,7 +382,7 @@ class _Solver:
         c = np.array([self.costs[o] for o, _ in patterns])
         res = milp(c, constraints=LinearConstraint(a, np.array(counts, float), np.inf),
                    integrality=np.ones(len(patterns)), bounds=Bounds(0, np.inf),
-                   options={"node_limit": 5000, "mip_rel_gap": 1e-9})
+                   options={"node_limit": 200, "mip_rel_gap": 1e-9})
         if res.x is None:
             return None, False
         x = [int(round(v)) for v in res.x]

@@ -1,0 +1,136 @@
+"""The cutting-stock solver against hand counts, an exhaustive search and its bounds."""
+
+from __future__ import annotations
+
+import math
+
+import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
+
+from fabplan.estimate.cutting import (StockOption, cover_bound, lower_bound_pieces, pack,
+                                      pieces_per_stock, remnant_mm)
+
+
+def test_pieces_per_stick_and_remnant():
+    # common practice, no source: n = floor((U + k) / (L + k)); a 3000 mm stick with 5 mm
+    # trimmed from each end (U = 2990 mm), 1 mm kerf, 950 mm pieces: 3 pieces, 137 mm left
+    assert pieces_per_stock(2990, 950, 1) == 3
+    assert remnant_mm(2990, [950] * 3, 1) == pytest.approx(137)
+    p = pack([950] * 3, 1, [StockOption(2990, 10.0)])
+    assert len(p.bins) == 1 and p.proven_optimal
+    # a fourth piece needs a second stick
+    assert len(pack([950] * 4, 1, [StockOption(2990, 10.0)]).bins) == 2
+
+
+def test_exact_fit_uses_every_millimetre():
+    # common practice, no source: the last piece may end at the usable end (no kerf after it)
+    assert pieces_per_stock(2999, 1000, 0.5) == 2
+    assert pieces_per_stock(3001, 1000, 0.5) == 3  # 3 x 1000 + 2 x 0.5 = 3001
+    assert remnant_mm(3001, [1000] * 3, 0.5) == 0.0
+
+
+def test_one_length_needs_ceil_of_quantity_over_pieces_per_stick():
+    # common practice, no source: identical pieces, one stock length: ceil(n / per stick)
+    lengths = [709.3] * 500
+    per = pieces_per_stock(3038, 709.3, 1.5)
+    p = pack(lengths, 1.5, [StockOption(3038, 20.0)])
+    assert len(p.bins) == math.ceil(500 / per) == 125
+    assert p.proven_optimal
+    # the issue's bound, total / usable length rounded up, is weaker here
+    assert p.lower_bound_pieces == lower_bound_pieces(lengths, 1.5, 3038) == 117
+
+
+def test_cheapest_mix_of_a_coil_and_straights():
+    # invented prices: a 15 m coil at 60 against 3 m straights at 14: 14 pieces of 1 m
+    opts = [StockOption(15000, 60.0), StockOption(3000, 14.0)]
+    p = pack([1000] * 14, 0, opts)
+    # 1 coil (15 pieces) = 60 is cheaper than 5 straights (15 pieces) = 70
+    assert p.cost == pytest.approx(60.0)
+    p = pack([1000] * 17, 0, opts)
+    # 1 coil + 1 straight = 74, against 2 coils = 120 or 6 straights = 84
+    assert p.cost == pytest.approx(74.0)
+    assert sorted(o for o, _ in p.bins) == [0, 1]
+
+
+def _partitions(items):
+    if not items:
+        yield []
+        return
+    first, rest = items[0], items[1:]
+    for part in _partitions(rest):
+        for i in range(len(part)):
+            yield part[:i] + [[first] + part[i]] + part[i + 1:]
+        yield [[first]] + part
+
+
+def _exhaustive(lengths, kerf, options) -> float:
+    """Every partition of the pieces, each block in the cheapest stock that holds it."""
+    best = math.inf
+    for part in _partitions(list(range(len(lengths)))):
+        cost = 0.0
+        for block in part:
+            need = sum(lengths[i] for i in block) + kerf * (len(block) - 1)
+            fits = [o.cost for o in options if o.usable_mm >= need - 1e-6]
+            if not fits:
+                cost = math.inf
+                break
+            cost += min(fits)
+        best = min(best, cost)
+    return best
+
+
+def _check_valid(p, lengths, kerf, options):
+    seen = sorted(i for _, cuts in p.bins for i in cuts)
+    assert seen == list(range(len(lengths)))
+    for o, cuts in p.bins:
+        used = sum(lengths[i] for i in cuts) + kerf * (len(cuts) - 1)
+        assert used <= options[o].usable_mm + 1e-6
+    assert p.cost == pytest.approx(sum(options[o].cost for o, _ in p.bins))
+
+
+orders = st.tuples(
+    st.lists(st.tuples(st.sampled_from([1000.0, 1500.0, 2400.0, 3000.0, 6000.0]),
+                       st.sampled_from([4.0, 7.5, 10.0, 12.0, 30.0])), min_size=1, max_size=3),
+    st.sampled_from([0.0, 1.0, 2.5]),
+    st.lists(st.floats(0.02, 1.0), min_size=1, max_size=7),
+)
+
+
+@settings(max_examples=150, deadline=None, derandomize=True)
+@given(orders)
+def test_small_orders_match_an_exhaustive_search(order):
+    raw_opts, kerf, fractions = order
+    options = [StockOption(u, c) for u, c in raw_opts]
+    longest = max(o.usable_mm for o in options)
+    lengths = [round(f * longest, 1) for f in fractions]
+    p = pack(lengths, kerf, options)
+    _check_valid(p, lengths, kerf, options)
+    assert p.cost == pytest.approx(_exhaustive(lengths, kerf, options))
+    assert p.proven_optimal
+    assert p.cost >= p.lower_bound_cost - 1e-9
+    assert len(p.bins) >= p.lower_bound_pieces
+
+
+@settings(max_examples=25, deadline=None, derandomize=True)
+@given(st.lists(st.sampled_from([450.5, 709.3, 980.0, 1200.0, 2210.0]), min_size=41,
+                max_size=300),
+       st.sampled_from([0.0, 1.5, 3.0]), st.booleans())
+def test_large_orders_are_valid_and_never_below_the_bounds(lengths, kerf, two):
+    options = [StockOption(3038, 20.0)] + ([StockOption(15220, 90.0)] if two else [])
+    p = pack(lengths, kerf, options)
+    _check_valid(p, lengths, kerf, options)
+    assert p.cost >= p.lower_bound_cost - 1e-9
+    assert len(p.bins) >= p.lower_bound_pieces
+    assert p.lower_bound_pieces == lower_bound_pieces(lengths, kerf, 15220 if two else 3038)
+
+
+def test_cover_bound_against_hand_counts():
+    # 10 m of demand from 3 m pieces at 5 and 7 m pieces at 9: 7 + 3 (14) beats 4 x 3 (20)
+    assert cover_bound(10_000, [3000, 7000], [5.0, 9.0]) == pytest.approx(14.0)
+    assert cover_bound(0, [3000], [5.0]) == 0.0
+
+
+def test_a_piece_longer_than_all_stock_is_refused():
+    with pytest.raises(ValueError):
+        pack([3100], 0, [StockOption(3000, 1.0)])
