@@ -156,6 +156,7 @@ COMMAND_MODULES: list[str] = [
     "fabplan.commands.estimate",
     "fabplan.commands.em",
     "fabplan.commands.output",
+    "fabplan.commands.jig",
 ]
 
 

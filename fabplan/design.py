@@ -84,6 +84,7 @@ EXTENSIONS: dict[str, str] = {
     "forming": "fabplan.forming.config:read_forming",
     "purchase": "fabplan.estimate.config:read_purchase",
     "electrical": "fabplan.em.config:read_electrical",
+    "jig": "fabplan.jig.settings:read_jig",
 }
 
 

@@ -1,0 +1,177 @@
+"""The DXF and SVG files read back with independent readers (ezdxf's reader,
+xml.etree) and measured against the Plan's figures."""
+
+from __future__ import annotations
+
+import math
+import xml.etree.ElementTree as ET
+
+import numpy as np
+import pytest
+from shapely.geometry import Point, Polygon
+
+from fabplan.jig.layout import layout_jig
+from fabplan.jig.settings import JigSettings
+from fabplan.render.dxf import LAYERS, bed_to_dxf
+from fabplan.render.svg import bed_to_svg
+
+TOL = 0.01  # mm: the brief's tolerance for figures read back from a drawing
+SVG = "{http://www.w3.org/2000/svg}"
+
+
+def _plate_bed(layout):
+    for bed in layout.beds:
+        if any(pl.part.kind == "plate" for pl in bed.parts):
+            return bed
+    raise AssertionError("no bed with a whole plate")
+
+
+@pytest.fixture(scope="module")
+def mm_doc(example_plan, read_dxf):
+    layout = layout_jig(example_plan, JigSettings(kerf_mm=0.0))
+    bed = _plate_bed(layout)
+    doc = read_dxf(bed_to_dxf(layout, bed))
+    return layout, doc
+
+
+def test_dxf_version_units_layers_and_audit(mm_doc):
+    _, doc = mm_doc
+    assert doc.dxfversion >= "AC1027"  # R2013 or newer
+    assert doc.header["$INSUNITS"] == 4  # source: DXF reference, $INSUNITS 4 = millimetres
+    auditor = doc.audit()
+    assert not auditor.has_errors, [str(e) for e in auditor.errors]
+    colours = {doc.layers.get(name).color for name, _ in LAYERS.values()}
+    assert len(colours) == len(LAYERS)
+    used = {e.dxf.layer for e in doc.modelspace()}
+    assert {name for name, _ in LAYERS.values()} <= used
+
+
+def test_former_discs_radii_and_spacing_read_back(mm_doc, example_plan, datum_transform, to_bed):
+    _, doc = mm_doc
+    msp = doc.modelspace()
+    f = example_plan.elements[0].forming
+    cut = sorted(c.dxf.radius for c in msp.query(f"CIRCLE[layer=='{LAYERS['cut'][0]}']"))
+    assert cut == pytest.approx(sorted(fm.radius_mm for fm in f.formers), abs=TOL)
+    # the plate's bolt holes, found at the Plan's centres through the datum
+    frame = datum_transform(msp)
+    drills = [(np.array([c.dxf.center.x, c.dxf.center.y]), c.dxf.radius)
+              for c in msp.query(f"CIRCLE[layer=='{LAYERS['drill'][0]}']")]
+    found = []
+    for fm in f.formers:
+        want = to_bed(frame, fm.centre_mm)
+        near = [p for p, r in drills if np.linalg.norm(p - want) < TOL]
+        assert len(near) == 1
+        found.append(near[0])
+    for (a, b), spacing in zip(zip(found, found[1:]), f.former_spacing_mm):
+        assert float(np.linalg.norm(b - a)) == pytest.approx(spacing, abs=TOL)
+
+
+def test_every_mark_position_reads_back(mm_doc, example_plan, datum_transform, to_bed):
+    _, doc = mm_doc
+    msp = doc.modelspace()
+    frame = datum_transform(msp)
+    mids = [np.array([(ln.dxf.start.x + ln.dxf.end.x) / 2, (ln.dxf.start.y + ln.dxf.end.y) / 2])
+            for ln in msp.query(f"LINE[layer=='{LAYERS['engrave'][0]}']")]
+    marks = example_plan.elements[0].forming.jig_marks
+    assert marks
+    for m in marks:
+        want = to_bed(frame, m.point_mm)
+        assert min(float(np.linalg.norm(p - want)) for p in mids) < TOL, m.label
+
+
+def test_arcs_are_true_arcs_and_contours_closed(mm_doc):
+    _, doc = mm_doc
+    msp = doc.modelspace()
+    assert len(msp.query("ARC")) >= 6  # centreline and outline of the two ends
+    polys = msp.query("LWPOLYLINE")
+    assert polys and all(p.closed for p in polys)
+    cut = [p for p in polys if p.dxf.layer == LAYERS["cut"][0]]
+    # rounded corners as bulges: a 90 degree arc has bulge tan(90/4) (DXF reference, LWPOLYLINE)
+    bulges = [b for p in cut for (b,) in p.get_points("b") if b]
+    assert bulges and all(b == pytest.approx(math.tan(math.radians(22.5))) for b in bulges)
+
+
+def _cut_shapes(doc):
+    """Cut outlines as shapely polygons, via ezdxf's own path flattening."""
+    from ezdxf import path
+
+    out = []
+    for e in doc.modelspace().query(f"*[layer=='{LAYERS['cut'][0]}']"):
+        if e.dxftype() == "CIRCLE":
+            out.append(Point(e.dxf.center.x, e.dxf.center.y).buffer(e.dxf.radius, quad_segs=64))
+        else:
+            pts = [(v.x, v.y) for v in path.make_path(e).flattening(0.01)]
+            if math.dist(pts[0], pts[-1]) < 1e-6:
+                pts = pts[:-1]  # the flattened closing point, equal to the first to ~1e-14
+            out.append(Polygon(pts))
+    return out
+
+
+@pytest.mark.parametrize("bed", ["600x400mm", "250x300mm"])
+def test_no_two_cut_parts_overlap_in_the_file(long_plan, example_plan, bed, read_dxf):
+    from fabplan.jig.settings import with_options
+
+    s = with_options(JigSettings(kerf_mm=0.2), bed=bed)
+    for plan in (example_plan, long_plan):
+        layout = layout_jig(plan, s)
+        for b in layout.beds:
+            shapes = _cut_shapes(read_dxf(bed_to_dxf(layout, b)))
+            assert shapes
+            for i in range(len(shapes)):
+                assert shapes[i].is_valid
+                assert 0 <= shapes[i].bounds[0] and shapes[i].bounds[2] <= b.width_mm
+                for j in range(i + 1, len(shapes)):
+                    assert not shapes[i].intersects(shapes[j])
+
+
+def test_inch_drawing_scales_every_figure(example_plan, read_dxf, datum_transform, to_bed):
+    layout = layout_jig(example_plan, JigSettings(units="in"))
+    bed = _plate_bed(layout)
+    doc = read_dxf(bed_to_dxf(layout, bed))
+    assert doc.header["$INSUNITS"] == 1  # source: DXF reference, $INSUNITS 1 = inches
+    assert not doc.audit().has_errors
+    msp = doc.modelspace()
+    f = example_plan.elements[0].forming
+    cut = sorted(c.dxf.radius for c in msp.query(f"CIRCLE[layer=='{LAYERS['cut'][0]}']"))
+    # source: 1 in = 25.4 mm exactly (NIST SP 811)
+    assert [r * 25.4 for r in cut] == pytest.approx(sorted(fm.radius_mm for fm in f.formers),
+                                                    abs=TOL)
+    frame = datum_transform(msp)
+    mids = [np.array([(ln.dxf.start.x + ln.dxf.end.x) / 2, (ln.dxf.start.y + ln.dxf.end.y) / 2])
+            for ln in msp.query(f"LINE[layer=='{LAYERS['engrave'][0]}']")]
+    for m in f.jig_marks:
+        want = to_bed(frame, m.point_mm, 1 / 25.4)
+        assert min(float(np.linalg.norm(p - want)) for p in mids) * 25.4 < TOL
+
+
+def test_same_layout_same_bytes(example_plan):
+    a = layout_jig(example_plan, JigSettings(kerf_mm=0.15))
+    b = layout_jig(example_plan, JigSettings(kerf_mm=0.15))
+    for x, y in zip(a.beds, b.beds):
+        assert bed_to_dxf(a, x) == bed_to_dxf(b, y)
+        assert bed_to_svg(a, x) == bed_to_svg(b, y)
+
+
+def test_svg_size_in_mm_and_a_measured_spacing(example_plan):
+    s = JigSettings()
+    layout = layout_jig(example_plan, s)
+    bed = _plate_bed(layout)
+    root = ET.fromstring(bed_to_svg(layout, bed))
+    assert root.get("width") == f"{s.bed_mm[0]:g}mm" and root.get("height") == f"{s.bed_mm[1]:g}mm"
+    assert [float(v) for v in root.get("viewBox").split()] == [0, 0, *s.bed_mm]
+    f = example_plan.elements[0].forming
+    centres = {}
+    for c in root.iter(f"{SVG}circle"):
+        role = c.get("data-role", "")
+        if role.startswith("bolt-hole "):
+            centres[role.split()[1]] = (float(c.get("cx")), float(c.get("cy")))
+    measured = math.dist(centres[f.formers[0].label], centres[f.formers[1].label])
+    assert measured == pytest.approx(f.former_spacing_mm[0], abs=TOL)
+    # each operation is one group with its own colour and a hairline stroke
+    groups = {g.get("id"): g for g in root.iter(f"{SVG}g")}
+    assert {"cut", "drill", "engrave"} <= set(groups)
+    assert len({g.get("stroke") for g in groups.values()}) == len(groups)
+    assert all(float(g.get("stroke-width")) <= 0.03 for g in groups.values())
+    # the former discs' cut circles have the Plan's radii
+    radii = sorted(float(c.get("r")) for c in groups["cut"].iter(f"{SVG}circle"))
+    assert radii == pytest.approx(sorted(fm.radius_mm for fm in f.formers), abs=TOL)

@@ -1,0 +1,224 @@
+"""The jig layout against the Plan's figures, with shapely as the reference
+for clearances and overlaps."""
+
+from __future__ import annotations
+
+import dataclasses
+import math
+
+import pytest
+from shapely.geometry import LineString, Point, box
+
+from fabplan.jig.layout import layout_jig
+from fabplan.jig.settings import JigSettings
+from fabplan.jig.shapes import Circle, Contour, Text
+
+
+def _items(layout, role_prefix: str, kind: str | None = None):
+    out = []
+    for bed in layout.beds:
+        for pl in bed.parts:
+            if kind is not None and pl.part.kind != kind:
+                continue
+            out.extend((bed.index, pl, it) for it in pl.part.items
+                       if it.role.startswith(role_prefix))
+    return out
+
+
+def _check_beds(layout):
+    """Every part inside its bed and no two parts overlapping (shapely)."""
+    for bed in layout.beds:
+        frame = box(0, 0, bed.width_mm, bed.height_mm)
+        shapes = [pl.outline() for pl in bed.parts]
+        for s in shapes:
+            assert frame.contains(s)
+        for i in range(len(shapes)):
+            for j in range(i + 1, len(shapes)):
+                assert not shapes[i].intersects(shapes[j])
+    assert not [f for f in layout.findings if f.code == "jig-overlap"]
+
+
+def test_pins_are_tangent_to_the_conductor(example_plan):
+    e = example_plan.elements[0]
+    s = JigSettings()
+    layout = layout_jig(example_plan, s)
+    pts, _ = e.path.sample(0.05)
+    centreline = LineString([(p[0], p[1]) for p in pts])
+    pins = [it.shape for _, _, it in _items(layout, "pin-hole", "plate")]
+    assert len(pins) >= 8
+    for c in pins:
+        # centre offset by half the conductor plus the pin radius (the brief's rule)
+        expected = e.conductor_diameter_mm / 2 + s.pin_diameter_mm / 2
+        assert centreline.distance(Point(c.centre)) == pytest.approx(expected, abs=1e-3)
+        assert c.radius == pytest.approx(s.pin_diameter_mm / 2)
+    # consecutive pins along one straight side are one pitch apart
+    top = sorted(c.centre[0] for c in pins if c.centre[1] > 15.875 + 1)
+    gaps = [b - a for a, b in zip(top, top[1:])]
+    assert gaps and all(g == pytest.approx(s.pin_pitch_mm) for g in gaps)
+
+
+def test_pins_clear_the_former_discs(example_plan):
+    layout = layout_jig(example_plan, JigSettings())
+    f = example_plan.elements[0].forming
+    for _, _, it in _items(layout, "pin-hole", "plate"):
+        for fm in f.formers:
+            gap = math.dist(it.shape.centre, fm.centre_mm) - fm.radius_mm - it.shape.radius
+            assert gap > 0
+
+
+def test_formers_and_bolt_holes_come_from_the_plan(example_plan):
+    layout = layout_jig(example_plan, JigSettings())
+    f = example_plan.elements[0].forming
+    discs = [pl.part for bed in layout.beds for pl in bed.parts if pl.part.kind == "former"]
+    assert sorted(p.name for p in discs) == sorted(f"70 cm driven element: former {fm.label}"
+                                                   for fm in f.formers)
+    for fm in f.formers:
+        hole = [it.shape for _, _, it in _items(layout, f"bolt-hole {fm.label}", "plate")]
+        assert len(hole) == 1 and hole[0].centre == pytest.approx(fm.centre_mm)
+
+
+@pytest.mark.parametrize("bed", [(600.0, 400.0), (450.0, 200.0), (250.0, 300.0)])
+@pytest.mark.parametrize("split", ["sections", "end-plates"])
+def test_parts_fit_their_beds_without_overlap(example_plan, long_plan, bed, split):
+    for plan in (example_plan, long_plan):
+        layout = layout_jig(plan, JigSettings(bed_mm=bed, split=split))
+        _check_beds(layout)
+        assert layout.beds
+
+
+def test_a_long_plate_is_cut_into_sections_with_matching_alignment_holes(long_plan):
+    s = JigSettings(bed_mm=(600.0, 400.0))
+    layout = layout_jig(long_plan, s)
+    _check_beds(layout)
+    sections = [pl.part for bed in layout.beds for pl in bed.parts if pl.part.kind == "section"]
+    assert len(sections) == 2
+    assert "jig-plate-split" in {f.code for f in layout.findings}
+    # the sections butt together: one's right edge is the other's left edge
+    (a0, _, a1, _), (b0, _, b1, _) = sorted(p.bounds() for p in sections)
+    assert a1 == pytest.approx(b0)
+    assert max(a1 - a0, b1 - b0) <= 600.0 - 2 * s.part_gap_mm
+    # alignment holes pair across the joint at the same heights, one splice plate holds them
+    holes = {p.bounds()[0]: sorted(it.shape.centre for it in p.items if it.role == "align 1")
+             for p in sections}
+    left, right = holes[a0], holes[b0]
+    assert len(left) == len(right) == 2
+    for (xl, yl), (xr, yr) in zip(left, right):
+        assert yl == pytest.approx(yr) and xl < a1 < xr
+    splice = [pl.part for bed in layout.beds for pl in bed.parts if pl.part.kind == "splice"]
+    spl = sorted(it.shape.centre for it in splice[0].items if it.role == "align 1")
+    assert math.dist(spl[0], spl[2]) == pytest.approx(right[0][0] - left[0][0])
+    # nothing of the formers' bolt holes is lost in the cut
+    bolts = [it for p in sections for it in p.items if it.role.startswith("bolt-hole")]
+    assert len(bolts) == len(long_plan.elements[0].forming.formers)
+
+
+def test_end_plates_carry_the_plan_spacing(long_plan):
+    layout = layout_jig(long_plan, JigSettings(bed_mm=(1000.0, 400.0), split="end-plates"))
+    f = long_plan.elements[0].forming
+    kinds = [pl.part.kind for bed in layout.beds for pl in bed.parts]
+    assert kinds.count("end-plate") == 2 and kinds.count("spacing-bar") == 1
+    bar = next(pl.part for bed in layout.beds for pl in bed.parts
+               if pl.part.kind == "spacing-bar")
+    c = [it.shape.centre for it in bar.items if it.role.startswith("bolt-hole")]
+    assert math.dist(*c) == pytest.approx(f.former_spacing_mm[0], abs=1e-9)
+    _check_beds(layout)
+
+
+@pytest.mark.parametrize("kerf", [0.0, 0.2, 0.5])
+def test_kerf_grows_outlines_and_shrinks_holes(example_plan, kerf):
+    s = JigSettings(kerf_mm=kerf)
+    layout = layout_jig(example_plan, s)
+    f = example_plan.elements[0].forming
+    for fm in f.formers:
+        disc = next(pl.part for bed in layout.beds for pl in bed.parts
+                    if pl.part.name.endswith(f"former {fm.label}"))
+        cut = [it.shape for it in disc.items if it.op == "cut"][0]
+        assert isinstance(cut, Contour) and cut.segments[0].radius == pytest.approx(
+            fm.radius_mm + kerf / 2)
+        hole = [it.shape for it in disc.items if it.op == "drill"][0]
+        assert hole.radius == pytest.approx(s.bolt_hole_mm / 2 - kerf / 2)
+    plate = next(pl.part for bed in layout.beds for pl in bed.parts if pl.part.kind == "plate")
+    base = layout_jig(example_plan, JigSettings()).beds[0]
+    plate0 = next(pl.part for pl in base.parts if pl.part.kind == "plate")
+    grow = plate.outline.area - plate0.outline.area
+    outline0 = [it.shape for it in plate0.items if it.op == "cut"][0]
+    # Steiner: perimeter * k/2 + pi (k/2)^2 for a convex outline (shapely areas measured)
+    assert grow == pytest.approx(outline0.length * kerf / 2 + math.pi * (kerf / 2) ** 2,
+                                 rel=1e-3, abs=1e-6)
+
+
+def test_labels_name_element_stock_former_and_overbend(example_plan):
+    layout = layout_jig(example_plan, JigSettings())
+    e = example_plan.elements[0]
+    text = " ".join(it.shape.text for _, _, it in _items(layout, "label", "plate"))
+    assert e.name in text and example_plan.stock.description in text
+    for fm in e.forming.formers:
+        assert f"dia {2 * fm.radius_mm:.2f} mm" in text
+    for b in e.forming.bends:
+        assert f"bend to {b.overbend_deg:.1f} deg" in text
+
+
+def test_every_jig_mark_is_engraved_across_the_conductor(example_plan):
+    layout = layout_jig(example_plan, JigSettings())
+    e = example_plan.elements[0]
+    lines = [it.shape for _, _, it in _items(layout, "mark ", "plate")]
+    assert len(lines) == len(e.forming.jig_marks)
+    for m, line in zip(e.forming.jig_marks, lines):
+        assert line.midpoint() == pytest.approx(m.point_mm, abs=1e-9)
+        # perpendicular to the stock, longer than the conductor is wide
+        d = (line.end[0] - line.start[0], line.end[1] - line.start[1])
+        assert abs(d[0] * m.direction[0] + d[1] * m.direction[1]) < 1e-9
+        assert line.length > e.conductor_diameter_mm
+
+
+def test_calibration_squares_are_100_mm_and_4_in(example_plan):
+    layout = layout_jig(example_plan, JigSettings())
+    squares = [it.shape for _, _, it in _items(layout, "calibration", "calibration")]
+    sides = sorted(contour.segments[0].length for contour in squares)
+    # source: 1 in = 25.4 mm exactly (NIST SP 811)
+    assert sides == pytest.approx([100.0, 101.6])
+
+
+def test_helix_gets_a_mandrel_and_a_pitch_guide(helix_plan):
+    s = JigSettings()
+    layout = layout_jig(helix_plan, s)
+    e = helix_plan.elements[0]
+    parts = {pl.part.kind: pl.part for bed in layout.beds for pl in bed.parts}
+    assert {"mandrel", "pitch-guide"} <= set(parts)
+    assert "plate" not in parts
+    mandrel = [it.shape for it in parts["mandrel"].items if it.role == "mandrel"][0]
+    ys = [p[1] for p in mandrel.points()]
+    assert max(ys) - min(ys) == pytest.approx(2 * e.forming.bends[0].former_radius_mm)
+    notes = " ".join(it.shape.text for it in parts["mandrel"].items
+                     if isinstance(it.shape, Text))
+    assert f"{e.bends[0].pitch_mm:.2f} mm" in notes
+    # the guide's notches are the conductor's radius, one pitch apart; a router bit
+    # wider than them is flagged
+    guide = [it.shape for it in parts["pitch-guide"].items if it.op == "cut"][0]
+    notches = sorted(sg.centre[0] for sg in guide.segments
+                     if getattr(sg, "sweep_deg", 0) < 0)
+    assert len(notches) == 6
+    assert all(b - a == pytest.approx(e.bends[0].pitch_mm) for a, b in zip(notches, notches[1:]))
+    assert "jig-inside-corner" in {f.code for f in layout.findings}
+    laser = layout_jig(helix_plan, dataclasses.replace(s, tool_radius_mm=0.0))
+    assert "jig-inside-corner" not in {f.code for f in laser.findings}
+
+
+def test_holes_smaller_than_the_router_bit_are_flagged(example_plan):
+    codes = {f.code for f in layout_jig(example_plan, JigSettings(tool_radius_mm=3.175)).findings}
+    assert "jig-hole-below-tool" in codes  # 6 mm pins under a 1/4 in bit
+    codes = {f.code for f in layout_jig(example_plan, JigSettings(tool_radius_mm=1.0)).findings}
+    assert "jig-hole-below-tool" not in codes
+
+
+def test_a_bed_too_small_for_any_plate_is_a_finding(example_plan):
+    layout = layout_jig(example_plan, JigSettings(bed_mm=(150.0, 120.0)))
+    assert "jig-too-big" in {f.code for f in layout.findings}
+    _check_beds(layout)
+
+
+def test_drill_items_are_circles(example_plan):
+    layout = layout_jig(example_plan, JigSettings())
+    for bed in layout.beds:
+        for pl in bed.parts:
+            assert all(isinstance(it.shape, Circle) for it in pl.part.items if it.op == "drill")

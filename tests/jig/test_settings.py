@@ -1,0 +1,55 @@
+"""The [jig] table and the jig command's option strings."""
+
+from __future__ import annotations
+
+import pytest
+
+from fabplan.config import Section
+from fabplan.design import parse_design
+from fabplan.errors import DesignError
+from fabplan.jig.settings import JigSettings, parse_bed, read_jig, with_options
+
+
+def test_defaults_when_the_table_is_absent(folded_dipole_toml):
+    design = parse_design(folded_dipole_toml())
+    assert design.jig == JigSettings()
+
+
+def test_the_table_is_read_in_millimetres(folded_dipole_toml):
+    text = folded_dipole_toml() + '\n[jig]\nbed = "24 x 18 in"\nkerf = "0.2 mm"\nunits = "in"\n' \
+        'pin_pitch = "4 in"\nsplit = "end-plates"\n'
+    s = parse_design(text).jig
+    # source: 1 in = 25.4 mm exactly (NIST SP 811, appendix B)
+    assert s.bed_mm == pytest.approx((609.6, 457.2))
+    assert s.pin_pitch_mm == pytest.approx(101.6)
+    assert (s.kerf_mm, s.units, s.split) == (pytest.approx(0.2), "in", "end-plates")
+
+
+def test_unknown_key_names_the_field_and_a_near_miss():
+    with pytest.raises(DesignError, match=r"jig\.kerff.*did you mean 'kerf'"):
+        read_jig(Section({"jig": {"kerff": "1 mm"}}, ""))
+
+
+@pytest.mark.parametrize("text, expected", [
+    ("600x400mm", (600.0, 400.0)),
+    ("600 x 400 mm", (600.0, 400.0)),
+    ("24x18in", (609.6, 457.2)),  # source: 1 in = 25.4 mm (NIST SP 811)
+    ("1.2 m x 60 cm", (1200.0, 600.0)),
+])
+def test_bed_strings(text, expected):
+    assert parse_bed(text) == pytest.approx(expected)
+
+
+@pytest.mark.parametrize("text", ["600x400", "600", "axb mm", "600x400x3mm", ""])
+def test_bad_bed_strings_are_refused(text):
+    with pytest.raises(DesignError, match="WIDTHxHEIGHT"):
+        parse_bed(text, "--bed")
+
+
+def test_options_override_and_are_checked():
+    s = with_options(JigSettings(), bed="300x200mm", kerf="0.3 mm", units="in")
+    assert (s.bed_mm, s.kerf_mm, s.units) == ((300.0, 200.0), pytest.approx(0.3), "in")
+    with pytest.raises(DesignError, match="--units"):
+        with_options(JigSettings(), units="cm")
+    with pytest.raises(DesignError, match="kerf"):
+        with_options(JigSettings(), kerf="6 mm")
