@@ -26,7 +26,7 @@ from ..errors import DesignError
 from ..units import IN, format_inches, format_mm
 
 __all__ = ["PAPERS", "SHEET_PAPERS", "TEMPLATE_PAPERS", "Paper", "PT_PER_MM", "Layout",
-           "ElementGeometry", "element_geometry", "tile_grid", "template_pdf", "paper_size",
+           "ElementGeometry", "element_geometry", "merge_labels", "tile_grid", "template_pdf", "paper_size",
            "side_text"]
 
 PT_PER_MM = 72 / 25.4
@@ -240,7 +240,7 @@ def _strip(e, den: int) -> tuple[list, tuple]:
             top = max(top, base + len(words) * 7 * 0.5 / PT_PER_MM)
     bottom = -half - STRIP_TICK_MM
     tools = e.forming.tool_marks if e.forming is not None else ()
-    tool_x = _spread([t.from_centre_mm for t in tools], LABEL_GAP_MM / 2)
+    tool_x = _spread([t.from_centre_mm for t in tools], LABEL_GAP_MM)
     for t, lx in zip(tools, tool_x):
         # where the pencil mark goes for a hand bender: below the strip, reading up
         x = t.from_centre_mm
@@ -248,11 +248,13 @@ def _strip(e, den: int) -> tuple[list, tuple]:
                           dash=(1.5, 0.8)))
         items.append(Item("poly", (((x, -half - TOOL_TICK_MM), (lx, -half - TOOL_TICK_MM - 2),
                                     (lx, -half - TOOL_TICK_MM - 3)),), width=0.25, grey=0.35))
-        words = (f"T{t.step}  bend {t.bend_index}: to the tool's {t.tool_reference} mark, "
-                 f"bend to {t.bend_to_deg:.1f} deg")
-        items.append(Item("text", (lx + 7 * 0.35 / PT_PER_MM, -half - TOOL_TICK_MM - 3.5, words),
-                          size=7, angle=90, anchor="end"))
-        bottom = min(bottom, -half - TOOL_TICK_MM - 3.5 - len(words) * 7 * 0.5 / PT_PER_MM)
+        lines = (f"T{t.step}  bend {t.bend_index} to {t.bend_to_deg:.1f} deg",
+                 f"at the tool's {t.tool_reference} mark")
+        for n, words in enumerate(lines):
+            items.append(Item("text", (lx - 0.5 if n == 0 else lx + 0.6 + 7 * 0.75 / PT_PER_MM,
+                                       -half - TOOL_TICK_MM - 3.5, words), size=7, angle=90,
+                              anchor="end"))
+            bottom = min(bottom, -half - TOOL_TICK_MM - 3.5 - len(words) * 7 * 0.5 / PT_PER_MM)
     note = (f"Marking strip: lay the straight stock on the grey bar, centre on "
             f"M{_centre_index(e)}, and mark at each tick. Cut length "
             f"{format_inches(e.cut_length_mm, den)} ({format_mm(e.cut_length_mm)}); stock "
@@ -282,6 +284,21 @@ def _spread(xs: list[float], gap: float) -> list[float]:
         for i, x in zip(g, _group_pos(g, xs, gap)):
             out[i] = x
     return out
+
+
+def merge_labels(labels: list[tuple], min_dist: float) -> list[tuple]:
+    """Join labels (text, x, y, *extra) closer than `min_dist` to an earlier one
+    into one "M3, M4" label at the earlier place, keeping its extras (same units
+    as the positions)."""
+    out: list[list] = []
+    for text, x, y, *extra in labels:
+        for g in out:
+            if math.hypot(g[1] - x, g[2] - y) < min_dist:
+                g[0] += f", {text}"
+                break
+        else:
+            out.append([text, x, y, *extra])
+    return [tuple(g) for g in out]
 
 
 def _group_pos(g: list[int], xs: list[float], gap: float) -> list[float]:
@@ -315,6 +332,7 @@ def _bent(e, geo: ElementGeometry, den: int) -> tuple[list, tuple]:
     half = e.conductor_diameter_mm / 2
     if geo.planar:
         mx, my = (geo.bbox[0] + geo.bbox[2]) / 2, (geo.bbox[1] + geo.bbox[3]) / 2
+        labels = []
         for mid, m, (px, py), (tx, ty) in geo.marks:
             ext = half + 4
             items.append(Item("line", ((px - ty * ext, py + tx * ext),
@@ -322,9 +340,12 @@ def _bent(e, geo: ElementGeometry, den: int) -> tuple[list, tuple]:
             nx, ny = -ty, tx  # label on the outside of the element
             if (px - mx) * nx + (py - my) * ny < 0:
                 nx, ny = -nx, -ny
-            items.append(Item("text", (px + nx * (ext + 2.5), py + ny * (ext + 2.5), mid),
-                              size=6.5, anchor="middle"))
+            anchor = "start" if nx > 0.7 else ("end" if nx < -0.7 else "middle")
+            labels.append((mid, px + nx * (ext + 2.5), py + ny * (ext + 2.5), anchor))
             pts.append((px + nx * (ext + 5), py + ny * (ext + 5)))
+        for text, x, y, anchor in merge_labels(labels, 4.0):
+            items.append(Item("text", (x, y - (0 if anchor == "middle" else 0.8), text),
+                              size=6.5, anchor=anchor))
     forming = e.forming
     if forming is not None:
         for f in forming.formers:

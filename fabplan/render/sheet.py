@@ -21,7 +21,7 @@ from pathlib import Path
 from .. import __version__
 from ..units import format_frequency, format_inches, format_mm
 from .fullscale import (PAPERS, PT_PER_MM, SHEET_PAPERS, element_geometry, mark_ids,
-                        paper_size, prim_points, side_text)
+                        merge_labels, paper_size, prim_points, side_text)
 
 __all__ = ["sheet_pdf", "SAFETY", "DRAWING_SCALES"]
 
@@ -258,12 +258,16 @@ def _bend_table(ctx: _Ctx, e) -> list:
 
 
 def _which_way(b) -> str:
+    """The bend's direction against the bend before it in trade order."""
     r = b.rotation_deg % 360
-    if b.index == 1 or abs(r) < 1e-6:
-        return "in the drawing's plane" if b.index == 1 else "same way as the last bend"
+    if b.index == 1:
+        return "in the drawing's plane (the first bend from end A)"
+    prev = b.index - 1
+    if abs(r) < 1e-6 or abs(r - 360) < 1e-6:
+        return f"same plane, same way as bend {prev}"
     if abs(r - 180) < 1e-6:
-        return "the other way from the last bend (same plane)"
-    return f"turn the stock {b.rotation_deg:g} deg about its axis, then bend"
+        return f"same plane, the opposite way to bend {prev}"
+    return f"turn the stock {b.rotation_deg:g} deg about its axis from bend {prev}'s plane"
 
 
 def _steps(ctx: _Ctx, e) -> list:
@@ -399,6 +403,8 @@ def _drawing(ctx: _Ctx, e) -> list:
                 d.add(String(tx, ty + (4 - 8 * n if anchor != "middle" else 8 * (1 - n)),
                              text, fontSize=7, textAnchor=anchor))
     if geo.planar:
+        red = colors.Color(0.75, 0.1, 0.1)
+        labels = []
         for mid, m, (px_, py_), (tx, ty) in geo.marks:
             ext = e.conductor_diameter_mm / 2 * k + 4
             px, py = P(px_, py_)
@@ -408,8 +414,10 @@ def _drawing(ctx: _Ctx, e) -> list:
             nx, ny = -ty, tx
             if (px_ - cx_mid) * nx + (py_ - cy_mid) * ny < 0:
                 nx, ny = -nx, -ny
-            d.add(String(px + nx * (ext + 5), py + ny * (ext + 5) - 2.5, mid, fontSize=6,
-                         textAnchor="middle", fillColor=colors.Color(0.75, 0.1, 0.1)))
+            anchor = "start" if nx > 0.7 else ("end" if nx < -0.7 else "middle")
+            labels.append((mid, px + nx * (ext + 3), py + ny * (ext + 5) - 2.5, anchor))
+        for text, x, y, anchor in merge_labels(labels, 9.0):
+            d.add(String(x, y, text, fontSize=6, textAnchor=anchor, fillColor=red))
     if f is not None:
         for fm in f.formers:
             px, py = P(*fm.centre_mm)
@@ -470,11 +478,19 @@ def _order(ctx: _Ctx) -> list:
     cur = o.currency
     money_unit = f" ({cur.label})" if cur is not None else ""
     out = [ctx.p("Bill of material", ctx.h2)]
+    if not o.buy:
+        out.append(ctx.p(f"No stock offered in the design: {o.cut_count} cut(s), "
+                         f"{ctx.L(o.cut_length_mm)} of stock in all before kerf and ends. Add "
+                         "[purchase] offers for a buying and cutting plan."))
     rows = [[b.offer, ctx.L(b.length_mm), str(b.count), _money(cur, b.piece_cost),
              _money(cur, b.cost), f"{b.weight_kg:.3f}", b.source] for b in o.buy]
     for it in o.items:
         rows.append([it.name, "-", str(it.quantity), _money(cur, it.price_each),
                      _money(cur, it.cost), f"{it.weight_kg:.3f}", it.source])
+    if not rows:
+        return out + ctx.table(["weight", "kg"], [["elements as built",
+                                                   f"{o.elements_weight_kg:.3f}"]],
+                               [0.3, 0.2], "lr")
     out += ctx.table(["stock or item", "length", "qty", "each" + money_unit,
                       "cost" + money_unit, "weight kg", "source"], rows,
                      [0.2, 0.16, 0.05, 0.11, 0.11, 0.09, 0.28], "lrrrrrl",
@@ -489,6 +505,8 @@ def _order(ctx: _Ctx) -> list:
                _money(cur, o.total_cost)]]
     out += ctx.table(["totals", "weight (kg)", "cost" + money_unit], totals, [0.3, 0.35, 0.2],
                      "lrr")
+    if not o.pieces:
+        return out
     out.append(ctx.p("Cutting plan", ctx.h3))
     rows = []
     for p in o.pieces:
