@@ -28,6 +28,7 @@ __all__ = ["SegmentSet", "PairIntegrals", "pair_integrals", "segment_distance",
 _Q_SMOOTH = 2  # Gauss points per segment for the smooth remainder
 _Q_STATIC = 4  # Gauss points per segment for the static part of far pairs
 _Q_GRADED = 6  # Gauss points per graded sub-interval (near pairs)
+_Q_CORRECTION = 4  # Gauss points per graded sub-interval (exact-kernel correction)
 _GRADE = 0.15  # ratio of successive graded sub-intervals towards a breakpoint
 _NEAR = 1.0  # a pair is near when its gap is below this many segment lengths
 
@@ -92,22 +93,43 @@ class PairIntegrals:
 
     `static` (4, S_obs, S_src): the moments of 1/(4 pi R) (m), order M00, M01,
     M10, M11 (first index: power of u on the observation segment). For the smooth
-    remainder, the pairs (`pi`, `pj`; only i <= j when `symmetric`) carry the
-    Gauss-point distances `r` (P, q*q) and weights `w` (q*q, 4); near pairs also
+    remainder, every pair (flattened row-major) carries the Gauss-point distances
+    `r` (P, q*q) and weights `w` (q*q, 4); near pairs (`near`, flat indices) also
     carry `near_fix` (4, P_near): the exact minus the Gauss moments of R/(4 pi),
     so that the -k^2 R/2 term of the remainder, which has a kink, is integrated
-    exactly.
+    exactly. (Keeping every pair, not only i <= j, costs less than scattering a
+    triangle back into a square at every frequency.)
     """
 
     static: np.ndarray
-    pi: np.ndarray
-    pj: np.ndarray
     r: np.ndarray
     w: np.ndarray
     scale: np.ndarray  # (P,) l_i l_j / (4 pi)
-    near: np.ndarray  # indices into the pairs
+    near: np.ndarray  # flat indices of the near pairs
     near_fix: np.ndarray
     symmetric: bool
+
+    def __post_init__(self) -> None:
+        self._inv_r = 1.0 / self.r
+        self._wt = np.ascontiguousarray(self.w.T)
+        self._tri_r: np.ndarray | None = None
+        self._tri_map: np.ndarray | None = None
+        n_o, n_s = self.static.shape[1:]
+        if self.symmetric and n_o == n_s:
+            # exp(-jkR) on i <= j only, then gathered: pair (j, i) point (a, b) is (i, j) (b, a)
+            q2 = self.r.shape[1]
+            q = int(round(math.sqrt(q2)))
+            ti, tj = np.triu_indices(n_o)
+            pos = np.empty((n_o, n_o), dtype=np.int64)
+            pos[ti, tj] = np.arange(len(ti))
+            pos[tj, ti] = np.arange(len(ti))
+            pts = np.arange(q2)
+            swapped_pts = (pts % q) * q + pts // q
+            lower = np.tril(np.ones((n_o, n_o), bool), -1).ravel()
+            base = pos.ravel()[:, None] * q2
+            self._tri_map = (base + np.where(lower[:, None], swapped_pts[None, :],
+                                             pts[None, :])).ravel()
+            self._tri_r = self.r[ti * n_o + tj]
 
     def symmetrise(self) -> None:
         """Average M(i, j) with M(j, i) (u and v swapped): the pair set is symmetric, and
@@ -117,21 +139,21 @@ class PairIntegrals:
 
     def phase(self, k: float) -> np.ndarray:
         """exp(-j k R) at the smooth-part quadrature points, (P, q*q)."""
+        if self._tri_r is not None and self._tri_map is not None:
+            return np.take(np.exp(-1j * k * self._tri_r), self._tri_map).reshape(self.r.shape)
         return np.exp(-1j * k * self.r)
 
     def smooth(self, k: float, phase: np.ndarray | None = None) -> np.ndarray:
         """Moments (4, S_obs, S_src) of (exp(-jkR) - 1)/(4 pi R) at wavenumber k (1/m)."""
         e = self.phase(k) if phase is None else phase
-        g = (e - 1.0) / self.r
-        mom = (g @ self.w) * self.scale[:, None]  # (P, 4)
+        inv = self._inv_r
+        re = self._wt @ ((e.real - 1.0) * inv).T
+        im = self._wt @ (e.imag * inv).T
+        mom = re * self.scale
+        mom = mom + 1j * (im * self.scale)
         if len(self.near):
-            mom[self.near] -= (0.5 * k * k) * self.near_fix.T
-        n_o, n_s = self.static.shape[1:]
-        out = np.empty((4, n_o, n_s), dtype=complex)
-        out[:, self.pi, self.pj] = mom.T
-        if self.symmetric:
-            out[:, self.pj, self.pi] = mom.T[[0, 2, 1, 3]]
-        return out
+            mom[:, self.near] -= (0.5 * k * k) * self.near_fix
+        return mom.reshape(self.static.shape)
 
     def total(self, k: float, phase: np.ndarray | None = None) -> np.ndarray:
         return self.static + self.smooth(k, phase)
@@ -177,31 +199,37 @@ def pair_integrals(obs: SegmentSet, src: SegmentSet, symmetric: bool = False) ->
     inv = 1.0 / np.sqrt(_grid_d2(obs, src, us, centre) + a2[:, :, None])
     static = np.einsum("ijq,qm->mij", inv, _weights(us, ws, us, ws))
 
-    # smooth remainder: Gauss grid distances on the kept pairs
-    if symmetric:
-        pi, pj = np.triu_indices(obs.count)
-    else:
-        pi, pj = (x.ravel() for x in np.indices((obs.count, src.count)))
+    # smooth remainder: Gauss grid distances on every pair
     u, w = _gauss01(_Q_SMOOTH)
-    r = np.sqrt(_grid_d2(obs, src, u, centre) + a2[:, :, None])[pi, pj]
+    n_o, n_s = obs.count, src.count
+    r = np.sqrt(_grid_d2(obs, src, u, centre) + a2[:, :, None]).reshape(n_o * n_s, -1)
     w_s = _weights(u, w, u, w)
-    scale = len_prod[pi, pj] / (4 * math.pi)
+    scale = (len_prod / (4 * math.pi)).ravel()
 
     # near pairs: exact inner integral, graded outer quadrature
     gap = segment_distance(obs.start[:, None, :], obs.end[:, None, :],
                            src.start[None, :, :], src.end[None, :, :])
     is_near = gap < _NEAR * np.maximum(obs.length[:, None], src.length[None, :])
+    if symmetric:
+        is_near = np.triu(is_near)
     ii, jj = np.nonzero(is_near)
-    near = np.nonzero(is_near[pi, pj])[0]
-    near_fix = np.zeros((4, len(near)))
+    near = np.zeros(0, dtype=int)
+    near_fix = np.zeros((4, 0))
     if len(ii):
-        m_inv, _ = _near_moments(obs, src, ii, jj, a2[ii, jj])
+        m_inv, m_r = _near_moments(obs, src, ii, jj, a2[ii, jj])
         static[:, ii, jj] = m_inv
-        _, m_r = _near_moments(obs, src, pi[near], pj[near], a2[pi[near], pj[near]])
-        gauss_r = (r[near] @ w_s).T
-        near_fix = (m_r - gauss_r) * scale[near]
+        flat = ii * n_s + jj
+        near_fix = (m_r - (r[flat] @ w_s).T) * scale[flat]
+        near = flat
+        if symmetric:  # M(j, i) is M(i, j) with u and v swapped
+            off = ii != jj
+            static[:, jj[off], ii[off]] = m_inv[[0, 2, 1, 3]][:, off]
+            flat_t = jj[off] * n_s + ii[off]
+            fix_t = (m_r[[0, 2, 1, 3]][:, off] - (r[flat_t] @ w_s).T) * scale[flat_t]
+            near = np.concatenate([flat, flat_t])
+            near_fix = np.concatenate([near_fix, fix_t], axis=1)
     static *= len_prod / (4 * math.pi)
-    return PairIntegrals(static, pi, pj, r, w_s, scale, near, near_fix, symmetric)
+    return PairIntegrals(static, r, w_s, scale, near, near_fix, symmetric)
 
 
 def _graded_template(levels: int) -> np.ndarray:
@@ -270,30 +298,33 @@ def exact_kernel_correction(length: np.ndarray, radius: np.ndarray, closed: bool
     from scipy.special import ellipkm1
 
     n = len(length)
-    ii, jj, cc = [], [], []
-    seen: set[tuple[int, int]] = set()
+    cum = np.concatenate([[0.0], np.cumsum(length)])
+    total = cum[-1]
+    seen = np.zeros((n, n), bool)
+    parts = []
     for d in sorted(range(-reach, reach + 1), key=abs):
-        for i in range(n):
-            j = i + d
-            if closed:
-                j %= n
-            elif not 0 <= j < n:
-                continue
-            if (i, j) in seen:
-                continue
-            seen.add((i, j))
-            if d > 0:
-                c = sum(length[(i + t) % n] for t in range(d))
-            elif d < 0:
-                c = -sum(length[(j + t) % n] for t in range(-d))
-            else:
-                c = 0.0
-            ii.append(i)
-            jj.append(j)
-            cc.append(c)
-    ii_a = np.asarray(ii)
-    jj_a = np.asarray(jj)
-    c = np.asarray(cc, dtype=float)
+        i = np.arange(n)
+        j = i + d
+        if closed:
+            j %= n
+        ok = (j >= 0) & (j < n)
+        i, j = i[ok], j[ok]
+        fresh = ~seen[i, j]
+        i, j = i[fresh], j[fresh]
+        seen[i, j] = True
+        # chain distance from the start of i to the start of j, |d| segments along
+        if d >= 0:
+            c = cum[np.minimum(i + d, n)] - cum[i] if not closed else \
+                np.where(i + d <= n, cum[np.minimum(i + d, n)] - cum[i],
+                         total - cum[i] + cum[(i + d) % n])
+        else:
+            c = -(cum[i] - cum[np.maximum(i + d, 0)]) if not closed else \
+                np.where(i + d >= 0, -(cum[i] - cum[np.maximum(i + d, 0)]),
+                         -(cum[i] + total - cum[(i + d) % n]))
+        parts.append((i, j, c))
+    ii_a = np.concatenate([p[0] for p in parts])
+    jj_a = np.concatenate([p[1] for p in parts])
+    c = np.concatenate([p[2] for p in parts]).astype(float)
     li = length[ii_a]
     lj = length[jj_a]
     a2 = 0.5 * (radius[ii_a] ** 2 + radius[jj_a] ** 2)
@@ -305,12 +336,12 @@ def exact_kernel_correction(length: np.ndarray, radius: np.ndarray, closed: bool
     zero = np.clip(np.zeros_like(c), y_lo, y_hi)
     bp = np.sort(np.stack([y_lo, k1, k2, zero, y_hi], axis=1), axis=1)
     a_min = float(np.sqrt(a2.min()))
-    levels = max(2, math.ceil(math.log(0.05 * a_min / float(length.max())) / math.log(_GRADE)))
+    levels = max(2, math.ceil(math.log(1e-3 * a_min / float(length.max())) / math.log(_GRADE)))
     tpl = _graded_template(levels)
     edges = bp[:, :-1, None] + (bp[:, 1:, None] - bp[:, :-1, None]) * tpl[None, None, :]
     lo = edges[:, :, :-1].reshape(len(c), -1)
     hi = edges[:, :, 1:].reshape(len(c), -1)
-    xg, wg = _gauss01(_Q_GRADED)
+    xg, wg = _gauss01(_Q_CORRECTION)
     y = (lo[:, :, None] + (hi - lo)[:, :, None] * xg).reshape(len(c), -1)
     wy = ((hi - lo)[:, :, None] * wg).reshape(len(c), -1)
     y2 = y * y

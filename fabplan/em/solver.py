@@ -51,6 +51,62 @@ SPACING_DIAMETERS = 3.0  # closer conductors (centre to centre) draw a warning
 DEFAULT_MAX_UNKNOWNS = 2000
 
 
+class _OneBlasThread:
+    """Run the BLAS/LAPACK behind numpy and scipy on one thread while solving.
+
+    The matrices here are small (a few hundred unknowns): OpenBLAS threads gain little
+    and, on a busy two-core machine, spin against each other and slow a sweep several
+    times over. The loaded OpenBLAS libraries are found in /proc/self/maps; where that
+    fails (another platform, another BLAS) this does nothing.
+    """
+
+    _libs: list | None = None
+
+    @classmethod
+    def _find(cls) -> list:
+        if cls._libs is None:
+            import ctypes
+
+            libs = []
+            try:
+                with open("/proc/self/maps", encoding="utf-8") as fh:
+                    paths = {line.split()[-1] for line in fh if "openblas" in line.lower()}
+            except OSError:
+                paths = set()
+            for path in sorted(p for p in paths if ".so" in p):
+                try:
+                    lib = ctypes.CDLL(path)
+                except OSError:
+                    continue
+                for get, put in (("scipy_openblas_get_num_threads64_",
+                                  "scipy_openblas_set_num_threads64_"),
+                                 ("scipy_openblas_get_num_threads",
+                                  "scipy_openblas_set_num_threads"),
+                                 ("openblas_get_num_threads", "openblas_set_num_threads")):
+                    if hasattr(lib, get) and hasattr(lib, put):
+                        getter, setter = getattr(lib, get), getattr(lib, put)
+                        getter.restype = ctypes.c_int
+                        setter.argtypes = [ctypes.c_int]
+                        libs.append((getter, setter))
+                        break
+            cls._libs = libs
+        return cls._libs
+
+    def __enter__(self) -> "_OneBlasThread":
+        self._saved = []
+        for getter, setter in self._find():
+            n = int(getter())
+            self._saved.append((setter, n))
+            if n != 1:
+                setter(1)
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        for setter, n in self._saved:
+            if n != 1:
+                setter(n)
+
+
 @dataclass(frozen=True)
 class Solution:
     """The solved current at one frequency, with a 1 V source across the gap.
@@ -112,6 +168,7 @@ class WireModel:
         self.findings: list[Finding] = []
         self._basis(max_unknowns)
         self._check_limits()
+        self._gather_idx: list[np.ndarray] | None = None
         self._free: PairIntegrals | None = None
         self._image: PairIntegrals | None = None
         self._image_segments: SegmentSet | None = None
@@ -290,16 +347,28 @@ class WireModel:
         m00, m01, m10, m11 = m
         seg = self.segments
         n = seg.count
-        vec = (1j * omega * MU0) * (seg.direction @ seg_src.direction.T)
-        scal = m00 * (1.0 / (1j * omega * EPS0)) / (seg.length[:, None] * seg_src.length[None, :])
-        r, f = self._rs, self._fs  # segment index of each basis' halves (n = none)
-        out = np.zeros((self.unknowns, self.unknowns), dtype=complex)
-        for rows, cols, mom, sign in ((r, r, m11, 1.0), (r, f, m10 - m11, -1.0),
-                                      (f, r, m01 - m11, -1.0),
-                                      (f, f, m00 - m10 - m01 + m11, 1.0)):
-            h = np.zeros((n + 1, n + 1), dtype=complex)
-            h[:n, :n] = vec * mom + sign * scal
-            out += h[np.ix_(rows, cols)]
+        tt = seg.direction @ seg_src.direction.T
+        jwmu = 1j * omega * MU0
+        scal = m00 * ((1.0 / (1j * omega * EPS0))
+                      / (seg.length[:, None] * seg_src.length[None, :]))
+        if self._gather_idx is None:
+            r, f = self._rs, self._fs  # segment index of each basis' halves (n = none)
+            self._gather_idx = [(rows[:, None] * (n + 1) + cols[None, :])
+                                for rows, cols in ((r, r), (r, f), (f, r), (f, f))]
+        h = np.zeros((n + 1, n + 1), dtype=complex)
+        body = h[:n, :n]
+        out = None
+        for idx, mom, sign in zip(self._gather_idx, (m11, m10 - m11, m01 - m11,
+                                                     m00 - m10 - m01 + m11),
+                                  (1.0, -1.0, -1.0, 1.0)):
+            np.multiply(tt, mom, out=body)
+            body *= jwmu
+            if sign > 0:
+                body += scal
+            else:
+                body -= scal
+            part = np.take(h, idx)
+            out = part if out is None else out.__iadd__(part)
         return out
 
     def internal_impedance(self, f_hz: float) -> np.ndarray:
@@ -351,7 +420,8 @@ class WireModel:
     # -- solving ------------------------------------------------------------------
     def solve(self, f_hz: float) -> Solution:
         """Currents, impedance and powers at `f_hz` (Hz), 1 V across the gap."""
-        return self._solve(float(f_hz), None)
+        with _OneBlasThread():
+            return self._solve(float(f_hz), None)
 
     def _solve(self, f_hz: float, phases: tuple[np.ndarray, np.ndarray | None] | None
                ) -> Solution:
@@ -377,12 +447,17 @@ class WireModel:
         f = np.atleast_1d(np.asarray(f_hz, dtype=float))
         for x in f:
             self._check_frequency(float(x))
-        free, image = self._integrals()
         steps = np.diff(f)
         uniform = len(f) > 2 and np.allclose(steps, steps[0], rtol=1e-9, atol=0.0)
+        with _OneBlasThread():
+            return self._sweep(f, uniform)
+
+    def _sweep(self, f: np.ndarray, uniform: bool) -> list[Solution]:
+        free, image = self._integrals()
         out: list[Solution] = []
         if not uniform:
             return [self._solve(float(x), None) for x in f]
+        steps = np.diff(f)
         dk = 2 * math.pi * float(steps[0]) / C0
         rot_free = free.phase(dk)
         rot_image = image.phase(dk) if image is not None else None
