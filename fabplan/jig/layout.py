@@ -164,6 +164,8 @@ class _Board:
     items: list[Item]
     keep_out: list  # shapely geometries that a cut line, pin or label must avoid
     texts: list  # shapely boxes of labels
+    label_at: P = (0.0, 0.0)  # left end of the label block's first baseline
+    label_boxes: tuple = ()  # shapely boxes of the label block's lines
 
 
 def _text_box(t: Text):
@@ -265,7 +267,10 @@ def _plate_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
     body = unary_union([*keep_out, *texts])
     x0, y0, x1, y1 = body.bounds
     h = s.text_height_mm
-    lines = _label_lines(plan, e, s, max(40, int((x1 - x0) / (0.62 * h))))
+    room = min(x1 - x0, max(s.bed_mm) - 2 * (s.part_gap_mm + s.margin_mm) - 20.0)
+    lines = _label_lines(plan, e, s, max(30, int(room / (0.62 * h))))
+    label_at = (x0, y0 - 4.0 - h)
+    first_label = len(texts)
     y = y0 - 4.0 - h
     for text in lines:
         txt = Text((x0, y), text, h)
@@ -284,7 +289,10 @@ def _plate_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
     for cx, cy in ((rect[0] + inset, rect[1] + inset), (rect[2] - inset, rect[1] + inset),
                    (rect[2] - inset, rect[3] - inset), (rect[0] + inset, rect[3] - inset)):
         items.append(_hole((cx, cy), s.mounting_hole_mm, g, "mounting-hole"))
-    board = _Board(items, keep_out + [box(*t.bounds) for t in texts], texts)
+    mounting = [Point(it.shape.centre).buffer(s.mounting_hole_mm / 2) for it in items
+                if it.role == "mounting-hole"]
+    board = _Board(items, keep_out + mounting + [box(*t.bounds) for t in texts], texts,
+                   label_at, tuple(texts[first_label:]))
     plate = _plate(e.name, "plate", f"{e.name}: base plate", items, rect, s,
                    (s.corner_radius_mm,) * 4)
     parts: list[Part] = []
@@ -371,11 +379,13 @@ def _split_plate(e, s: JigSettings, board: _Board, rect, usable) -> tuple[list[P
                             "bed or a smaller margin", e.name)]
     holes = [i.shape for i in board.items if isinstance(i.shape, Circle)]
     bad = [(c.centre[0] - c.radius - 3, c.centre[0] + c.radius + 3) for c in holes]
-    bad += [(b.bounds[0] - 2, b.bounds[2] + 2) for b in board.texts]
     blocked = unary_union(board.keep_out)
     maxlen = longest - 2 * g
     if s.split == "end-plates":
+        bad += [(b.bounds[0] - 2, b.bounds[2] + 2) for b in board.texts
+                if not any(b is lb for lb in board.label_boxes)]
         return _end_plates(e, s, board, rect, bad, maxlen)
+    bad += [(b.bounds[0] - 2, b.bounds[2] + 2) for b in board.texts]
     cuts = _choose_cuts(x0, x1, bad, maxlen)
     if cuts is None:
         return [], [Finding("jig-too-big", "error", "found no place to cut the base plate "
@@ -488,7 +498,7 @@ def _clip_items(items: list[Item], xa: float, xb: float) -> list[Item]:
         elif isinstance(sh, Arc):
             out.extend(Item(it.op, a, it.role) for a in clip_arc_x(sh, xa, xb))
         elif isinstance(sh, Circle):
-            if xa <= sh.centre[0] < xb and it.role != "mounting-hole":
+            if xa <= sh.centre[0] < xb:
                 out.append(it)
             elif it.role.startswith("former-outline"):
                 out.extend(Item(it.op, a, it.role) for a in
@@ -532,11 +542,22 @@ def _end_plates(e, s: JigSettings, board: _Board, rect, bad, maxlen) -> tuple[li
     parts = []
     note = (f"set the end plates with formers {fa.label} and {fb.label} "
             f"{_len(dist, s.units)} apart, centre to centre")
-    for i, (xa, xb, radii) in enumerate(((x0, cut_a, (r, 0.0, 0.0, r)),
-                                         (cut_b, x1, (0.0, r, r, 0.0))), 1):
-        items = _clip_items(board.items, xa, xb)
-        items.append(Item("engrave", Text((xa + 6.0 if i == 2 else x0 + s.margin_mm, y1 - 8.0),
-                                          f"end plate {i}: {note}", 2.5), "label"))
+    h = s.text_height_mm
+    for i, (xa, xb, radii, group) in enumerate(((x0, cut_a, (r, 0.0, 0.0, r), left),
+                                                (cut_b, x1, (0.0, r, r, 0.0), right)), 1):
+        items = [it for it in _clip_items(board.items, xa, xb) if it.role != "label"]
+        bends = {b for fm in group for b in fm.bend_indices}
+        lines = [f"{e.name}: end plate {i} of 2", note]
+        lines += [f"former {fm.label}: dia {_len(2 * fm.radius_mm, s.units)}" for fm in group]
+        lines += [f"bend {b.index}: bend to {b.overbend_deg:.1f} deg" for b in e.forming.bends
+                  if b.index in bends]
+        width = max(12, int((xb - xa - 2 * s.margin_mm) / (0.62 * h)))
+        y = board.label_at[1]
+        for text in (w for line in lines for w in _wrap(line, width)):
+            if y < y0 + s.margin_mm * 0.75:
+                break  # the rest is in the notes
+            items.append(Item("engrave", Text((xa + s.margin_mm, y), text, h), "label"))
+            y -= 1.6 * h
         parts.append(_plate(e.name, "end-plate", f"{e.name}: end plate {i}", items,
                             (xa, y0, xb, y1), s, radii))
     findings = [Finding("jig-end-plates", "info", note + " (the spacing bar sets it)", e.name)]

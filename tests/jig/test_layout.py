@@ -222,3 +222,17 @@ def test_drill_items_are_circles(example_plan):
     for bed in layout.beds:
         for pl in bed.parts:
             assert all(isinstance(it.shape, Circle) for it in pl.part.items if it.op == "drill")
+
+
+def test_end_plate_labels_stay_on_their_plates(long_plan):
+    layout = layout_jig(long_plan, JigSettings(bed_mm=(1000.0, 400.0), split="end-plates"))
+    for bed in layout.beds:
+        for pl in bed.parts:
+            if pl.part.kind != "end-plate":
+                continue
+            x0, y0, x1, y1 = pl.part.bounds()
+            for it in pl.part.items:
+                if isinstance(it.shape, Text):
+                    t = it.shape
+                    assert x0 <= t.at[0] and t.at[0] + t.width <= x1
+                    assert y0 <= t.at[1] <= y1

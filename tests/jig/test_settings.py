@@ -53,3 +53,22 @@ def test_options_override_and_are_checked():
         with_options(JigSettings(), units="cm")
     with pytest.raises(DesignError, match="kerf"):
         with_options(JigSettings(), kerf="6 mm")
+
+
+def test_the_templates_commented_jig_table_parses_when_uncommented():
+    from importlib import resources
+
+    text = resources.files("fabplan").joinpath("templates", "folded-dipole.toml").read_text(
+        "utf-8")
+    lines = text.splitlines()
+    start = lines.index("# [jig]")
+    block = []
+    for line in lines[start:]:
+        if not line.startswith("# "):
+            break
+        block.append(line[2:])
+    head = "\n".join(ln for ln in lines if not ln.startswith("#"))
+    design = parse_design(head + "\n" + "\n".join(block) + "\n")
+    s = design.jig
+    assert s.bed_mm == (600.0, 400.0) and s.kerf_mm == pytest.approx(0.2)
+    assert s.tool_radius_mm == pytest.approx(3.175) and s.split == "sections"
