@@ -130,6 +130,12 @@ class _Ctx:
         return out
 
 
+def _num(x: float, places: int = 1) -> str:
+    """A figure to `places` decimals, never "-0.0"."""
+    v = round(x, places)
+    return f"{0.0 if v == 0 else v:.{places}f}"
+
+
 def _esc(text: str) -> str:
     return str(text).replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
 
@@ -391,7 +397,7 @@ def _drawing(ctx: _Ctx, e) -> list:
             (cx, cy), r, start, extent = prim[1:]
             mid = math.radians(start + extent / 2)
             px, py = P(cx + r * math.cos(mid), cy + r * math.sin(mid))
-            off = e.conductor_diameter_mm / 2 * k + 6
+            off = e.conductor_diameter_mm / 2 * k + 17  # beyond the mark labels
             c, sn = math.cos(mid), math.sin(mid)
             anchor = "start" if c > 0.3 else ("end" if c < -0.3 else "middle")
             tx, ty = px + c * off, py + sn * off - 3
@@ -400,8 +406,13 @@ def _drawing(ctx: _Ctx, e) -> list:
             if sn < -0.3:
                 ty -= 8
             for n, text in enumerate(lines):
-                d.add(String(tx, ty + (4 - 8 * n if anchor != "middle" else 8 * (1 - n)),
-                             text, fontSize=7, textAnchor=anchor))
+                if anchor != "middle":
+                    dy = 4 - 8 * n  # beside the bend: centred on its middle
+                elif sn > 0:
+                    dy = 3 + 8 * (1 - n)  # above it
+                else:
+                    dy = -8 * n  # below it
+                d.add(String(tx, ty + dy, text, fontSize=7, textAnchor=anchor))
     if geo.planar:
         red = colors.Color(0.75, 0.1, 0.1)
         labels = []
@@ -416,7 +427,7 @@ def _drawing(ctx: _Ctx, e) -> list:
                 nx, ny = -nx, -ny
             anchor = "start" if nx > 0.7 else ("end" if nx < -0.7 else "middle")
             labels.append((mid, px + nx * (ext + 3), py + ny * (ext + 5) - 2.5, anchor))
-        for text, x, y, anchor in merge_labels(labels, 9.0):
+        for text, x, y, anchor in merge_labels(labels, 14.0):
             d.add(String(x, y, text, fontSize=6, textAnchor=anchor, fillColor=red))
     if f is not None:
         for fm in f.formers:
@@ -446,7 +457,7 @@ def _jig(ctx: _Ctx, e) -> list:
     if f is None or not f.formers:
         return []
     rows = [[fm.label, ", ".join(str(i) for i in fm.bend_indices), ctx.L(2 * fm.radius_mm),
-             f"{fm.centre_mm[0]:.1f}, {fm.centre_mm[1]:.1f}", f"{fm.wrap_deg:.1f}"]
+             f"{_num(fm.centre_mm[0])}, {_num(fm.centre_mm[1])}", f"{fm.wrap_deg:.1f}"]
             for fm in f.formers]
     out = [ctx.p("Jig: formers", ctx.h3)]
     out += ctx.table(["former", "bends", "diameter", "centre x, y mm", "wrap deg"], rows,
