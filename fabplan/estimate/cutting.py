@@ -25,6 +25,8 @@ stops after a fixed number of nodes).
 
 from __future__ import annotations
 
+import bisect
+import itertools
 import math
 from dataclasses import dataclass
 from typing import Sequence
@@ -207,6 +209,7 @@ class _Solver:
         for o in self.useful:
             take, exact = _best_fill(self.gsize, counts, self.caps[o], budget=5_000)
             caps.append(sum(t * s for t, s in zip(take, self.gsize)) if exact else self.caps[o])
+        self.fill_caps = caps
         costs = [self.costs[o] for o in self.useful]
         total = sum(self.sizes)
         return max(cover_bound(total, caps, costs),
@@ -299,12 +302,18 @@ class _Solver:
         tol = 1e-9 * max(1.0, incumbent)
         state = {"best": incumbent - tol, "found": None, "nodes": 0, "complete": True}
 
+        fill_caps = getattr(self, "fill_caps", [self.caps[o] for o in self.useful])
+        table = _cover_table(fill_caps, [self.costs[o] for o in self.useful], suffix[0])
+
         def bound(i: int, cost: float) -> float:
             smallest = sizes[n - 1]
             free = sum(r for r in bin_rem if r >= smallest - EPS)
             need = suffix[i] - free
             if need <= EPS:
                 return cost
+            if table is not None:
+                k = bisect.bisect_left(table[0], need - EPS)
+                return cost + table[1][k]
             if single:
                 o = opts[0]
                 return cost + math.ceil(need / self.caps[o] - 1e-9) * self.costs[o]
@@ -427,6 +436,25 @@ class _Solver:
             out.append((o, cuts))
         out.sort(key=lambda b: (b[0], -self.load(b[1]), b[1]))
         return tuple(out)
+
+
+def _cover_table(caps: list[float], costs: list[float], total: float,
+                 limit: int = 100_000) -> tuple[list[float], list[float]] | None:
+    """Every mix of stock counts that could matter for `total` (mm): their capacity
+    sums, ascending, and the least cost of a mix holding at least each sum (for
+    bounds by bisection); None when there are more than `limit` mixes."""
+    ranges = [range(math.ceil(total / c - 1e-9) + 1) for c in caps if c > EPS]
+    if not ranges or math.prod(len(r) for r in ranges) > limit:
+        return None
+    useful = [(c, k) for c, k in zip(caps, costs) if c > EPS]
+    mixes = sorted((sum(n * c for n, (c, _) in zip(ns, useful)),
+                    sum(n * k for n, (_, k) in zip(ns, useful)))
+                   for ns in itertools.product(*ranges))
+    sums = [m[0] for m in mixes]
+    least = [m[1] for m in mixes]
+    for j in range(len(least) - 2, -1, -1):
+        least[j] = min(least[j], least[j + 1])
+    return sums, least
 
 
 def _maximal_patterns(gsize: list[float], counts: list[int], cap: float, limit: int):
