@@ -171,9 +171,10 @@ def element_forming(design, e, model: SectionModel, settings: FormingSettings,
             if not r.pitch_mm and b.final_angle_deg <= 360 < b.overbend_deg]
     if over:
         findings.append(Finding(
-            "overbend-impossible", "error",
-            f"bends {', '.join(map(str, over))}: springback would need the stock wrapped more "
-            "than a full turn while held; leave a gap in the loop, or use a softer temper", name))
+            "wrap-past-full-turn", "info",
+            f"bends {', '.join(map(str, over))}: to allow for springback the stock wraps more "
+            "than a full turn while held: let the end pass beside the start on the former (as "
+            "one turn of a coil); it springs open to the drawn shape", name))
 
     limits = [bend_limits(b.index, s.held_radius_mm, material, profile)
               for b, s in zip(rows, states)]

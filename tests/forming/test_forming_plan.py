@@ -287,3 +287,21 @@ def test_extend_json_merges_by_index():
     assert d["bends"][1]["overbend_deg"] == 92.0 and d["bends"][1]["final_radius_mm"] == 12.0
     assert d["forming"]["formers"] == [] and d["forming"]["splay_if_ignored_mm"] is None
     json.dumps(d, allow_nan=False)
+
+
+@pytest.mark.parametrize("name", ["folded-dipole", "hairpin"])
+def test_templates_commented_forming_tables_are_valid(name):
+    from importlib import resources
+
+    from fabplan.design import parse_design
+
+    t = resources.files("fabplan").joinpath("templates", f"{name}.toml").read_text("utf-8")
+    head, tail = t.split("# How the bend")
+    block = tail.split("\n\n")[0].split("\n")[1:]
+    body = "\n".join(line[2:] if line.startswith("# ") else "" for line in block)
+    design = parse_design(head + body)
+    s = design.forming
+    assert s.bender is not None and s.bender.grip_mm > 0
+    assert s.calibration is not None and s.calibration.angle_released_deg == 90
+    plan = make_plan(design)
+    assert plan.elements[0].forming.extra["calibrated"]
