@@ -29,7 +29,7 @@ from ..stock.profiles import Profile, Round, Strip, Tube
 from ..units import IN
 from .model import BendLimits
 
-__all__ = ["RadiusRule", "minimum_radius", "bend_limits", "limit_findings",
+__all__ = ["RadiusRule", "minimum_radius", "bend_limits", "limit_findings", "bend_list",
            "CTH_MIN_RADIUS_IN", "TUBE_RULES", "ROUND_RULES", "STRIP_RULES",
            "wall_outside", "wall_inside"]
 
@@ -174,9 +174,14 @@ def _remedy(material: Material, profile: Profile) -> str:
     return "; ".join(tips)
 
 
-def _bends(items: list[BendLimits]) -> str:
-    ids = [str(x.index) for x in items]
+def bend_list(indices) -> str:
+    """'bend 3' or 'bends 1, 2'."""
+    ids = [str(i) for i in indices]
     return ("bend " if len(ids) == 1 else "bends ") + ", ".join(ids)
+
+
+def _bends(items: list[BendLimits]) -> str:
+    return bend_list(x.index for x in items)
 
 
 def limit_findings(limits: list[BendLimits], material: Material, profile: Profile,

@@ -19,7 +19,7 @@ import numpy as np
 from ..errors import Finding
 from .config import FormingSettings
 from .formers import end_shift, formers, jig_marks, spacing
-from .limits import bend_limits, limit_findings
+from .limits import bend_limits, bend_list, limit_findings
 from .model import BendForming, ElementForming
 from .sequence import BendSite, bend_order, tool_marks
 from .springback import (BendState, SectionModel, calibrate_scale, final_for_held, law_for,
@@ -136,7 +136,7 @@ def element_forming(design, e, model: SectionModel, settings: FormingSettings,
         if big:
             findings.append(Finding(
                 "radius-above-elastic-limit", "warning",
-                f"bends {', '.join(map(str, big))}: the finished radius is larger than the "
+                f"{bend_list(big)}: the finished radius is larger than the "
                 f"{rho_e:.0f} mm from which this stock springs straight back; it has to be "
                 "formed much tighter and the result is very sensitive to the metal's yield; "
                 "calibrate with a test bend ([forming.calibration])", name))
@@ -159,7 +159,7 @@ def element_forming(design, e, model: SectionModel, settings: FormingSettings,
         if off and not ends_reported and not math.isinf(states[0].final_radius_mm):
             findings.append(Finding(
                 "radius-not-tool-radius", "warning",
-                f"bends {', '.join(map(str, off))}: the shape asks for other radii than the "
+                f"{bend_list(off)}: the shape asks for other radii than the "
                 f"{states[0].final_radius_mm:.1f} mm the bender makes after springback (tool "
                 f"{tool.radius_mm:.1f} mm); set the shape's radius to "
                 f"{states[0].final_radius_mm:.1f} mm or bend these round a former", name))
@@ -168,13 +168,22 @@ def element_forming(design, e, model: SectionModel, settings: FormingSettings,
         s.held_angle_deg - b.angle_deg, s.final_radius_mm, b.angle_deg, s.outer_strain,
         b.centreline_radius_mm) for b, s in zip(rows, states))
     over = [b.index for b, r in zip(bends, rows)
-            if not r.pitch_mm and b.final_angle_deg <= 360 < b.overbend_deg]
+            if not r.pitch_mm and math.isfinite(b.overbend_deg)
+            and b.final_angle_deg <= 360 < b.overbend_deg]
     if over:
         findings.append(Finding(
             "wrap-past-full-turn", "info",
-            f"bends {', '.join(map(str, over))}: to allow for springback the stock wraps more "
+            f"{bend_list(over)}: to allow for springback the stock wraps more "
             "than a full turn while held: let the end pass beside the start on the former (as "
             "one turn of a coil); it springs open to the drawn shape", name))
+
+    no_disc = [b.index for b in bends if b.former_radius_mm <= 0]
+    if no_disc:
+        findings.append(Finding(
+            "former-too-small", "error",
+            f"{bend_list(no_disc)}: allowing for springback the inside of the bend would need a "
+            f"former of no radius at all: the bend is tighter than the {depth:.2f} mm stock "
+            "allows; use a larger bend radius", name))
 
     limits = [bend_limits(b.index, s.held_radius_mm, material, profile)
               for b, s in zip(rows, states)]
@@ -218,7 +227,7 @@ def element_forming(design, e, model: SectionModel, settings: FormingSettings,
             worst = min(short, key=lambda t: t.grip_mm)
             findings.append(Finding(
                 "grip-too-short", "error",
-                f"bends {', '.join(str(t.bend_index) for t in short)}: in the best order "
+                f"{bend_list(t.bend_index for t in short)}: in the best order "
                 f"({', '.join(map(str, order))}) bend {worst.bend_index} has only "
                 f"{worst.grip_mm:.1f} mm of straight stock beside it and the bender needs "
                 f"{tool.grip_mm:.1f} mm to grip; leave more trim at the ends ([shop] trim or "

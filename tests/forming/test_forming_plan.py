@@ -271,6 +271,10 @@ feed_gap = "10 mm"
     f = plan.elements[0].forming
     assert f.splay_if_ignored_mm is None
     assert len(f.formers) == 1
+    # hard wire on a 150 mm radius springs back so far that the held wrap passes a full turn
+    assert f.bends[0].overbend_deg > 360
+    wrap = [x for x in plan.findings if x.code == "wrap-past-full-turn"]
+    assert len(wrap) == 1 and wrap[0].severity == "info"
     # the loop's disc is concentric-ish with the drawing: anchored at the arc's middle
     cx, cy = f.formers[0].centre_mm
     assert math.hypot(cx, cy) == pytest.approx(150.0 - f.bends[0].former_centreline_radius_mm,
