@@ -309,3 +309,26 @@ def test_templates_commented_forming_tables_are_valid(name):
     assert s.calibration is not None and s.calibration.angle_released_deg == 90
     plan = make_plan(design)
     assert plan.elements[0].forming.extra["calibrated"]
+
+
+def test_folded_dipole_discs_and_splay_by_hand(example_path):
+    plan = make_plan(load_design(example_path))
+    e = plan.elements[0]
+    f = e.forming
+    c = 1.25 * IN  # centre spacing
+    held = f.bends[0].former_centreline_radius_mm
+    # each disc touches the unbroken side's centreline one held radius below it
+    for disc in f.formers:
+        assert disc.centre_mm[1] == pytest.approx(c / 2 - held, abs=1e-9)
+        assert abs(disc.centre_mm[0]) == pytest.approx(11.5 * IN / 2, abs=1e-9)
+    # splay by hand: release bend 1 from the drawn radius and angle (no compensation),
+    # keep the unbroken side in place, and follow the fed-side leg to end A
+    m = section_model(plan.design.stock.profile, law_for(plan.design.stock.material))
+    r_d = c / 2
+    r_rel = 1 / m.released_one(1 / r_d)
+    th = math.radians(180.0 * r_d / r_rel)  # K = 0.5: the centreline keeps its length
+    cx, cy = 11.5 * IN / 2, c / 2 - r_rel
+    end = (cx + r_rel * math.sin(th) + 139.7 * math.cos(th),
+           cy + r_rel * math.cos(th) - 139.7 * math.sin(th))
+    by_hand = math.dist(end, (0.25 * IN, -c / 2))
+    assert f.splay_if_ignored_mm == pytest.approx(by_hand, rel=1e-9)
