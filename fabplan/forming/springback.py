@@ -16,6 +16,13 @@ Mechanics of Sheet Metal Forming, ch. 6, general method.)
 Release is elastic: 1/rho_i - 1/rho_f = M/(E I). The neutral axis keeps its
 length, so theta_i * rho_i = theta_f * rho_f on that axis.
 
+The section integral uses fixed Gauss-Legendre nodes on each smooth piece of
+the law (a round's width is handled by y = a sin(phi), which removes the
+square-root end), vectorised over curvatures. The inverse (curvature to hold
+for a finished curvature) is root finding on that integral: scipy's brentq for
+one bend, and for many bends at once a cached per-section table for the
+start followed by secant steps on the exact integral (brentq as the fallback).
+
 Units: mm, MPa (N/mm^2), N mm, radians inside; degrees at the interface.
 """
 
@@ -182,7 +189,9 @@ class SectionModel:
     # -- elastic limit and release ---------------------------------------------
     @property
     def elastic_limit_radius(self) -> float:
-        """Radius (mm) above which the bar springs straight back: E c / Y."""
+        """Radius (mm) above which the bar springs straight back: c over the strain
+        at the end of the elastic line, i.e. E c / Y (trade-notes.md), or E c /
+        sigma at the join with the Hollomon curve when that lies above Y."""
         return self.c / self.law.limit_strain
 
     @property
