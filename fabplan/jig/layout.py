@@ -166,6 +166,7 @@ class _Board:
     texts: list  # shapely boxes of labels
     label_at: P = (0.0, 0.0)  # left end of the label block's first baseline
     label_boxes: tuple = ()  # shapely boxes of the label block's lines
+    cache: dict = field(default_factory=dict)
 
 
 def _text_box(t: Text):
@@ -203,7 +204,13 @@ def _plate_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
     segs = _centreline(e.path)
     pts, _ = e.path.sample(0.5)
     centreline = LineString([(p[0], p[1]) for p in pts])
-    conductor = centreline.buffer(d / 2, cap_style="flat")
+    # the footprint for clearances: a coarser polyline, widened by its chord error
+    step = max(1.0, d)
+    coarse, _ = e.path.sample(step)
+    sag = min((step * step / (8 * b.radius_mm) for b in e.path.bends), default=0.0)
+    conductor = LineString([(p[0], p[1]) for p in coarse]).buffer(d / 2 + sag,
+                                                                   cap_style="flat",
+                                                                   quad_segs=4)
     items: list[Item] = _conductor_items(segs, d)
     discs = []
     for fm in f.formers:
@@ -460,17 +467,23 @@ def _choose_cuts(x0: float, x1: float, bad: list[tuple[float, float]],
 
 
 def _alignment_ys(xc: float, a: float, rr: float, rect, blocked, board) -> list[float]:
-    from shapely.geometry import Point
+    """Heights (1 mm steps) where a hole of radius `rr` fits on both sides of
+    the joint at `xc`, clear of everything on the plate; the lowest and highest."""
+    import numpy as np
+    import shapely
+    from shapely.ops import unary_union
 
     x0, y0, x1, y1 = rect
-    free = []
-    y = y0 + rr + 3.0
-    while y <= y1 - rr - 3.0:
-        spots = [Point(xc - a, y).buffer(rr), Point(xc + a, y).buffer(rr)]
-        if not any(p.intersects(blocked) or any(p.intersects(t) for t in board.texts)
-                   for p in spots):
-            free.append(y)
-        y += 1.0
+    taken = board.cache.get("taken")
+    if taken is None:
+        taken = board.cache["taken"] = unary_union([blocked, *board.texts])
+        shapely.prepare(taken)
+    ys = np.arange(y0 + rr + 3.0, y1 - rr - 3.0 + 1e-9, 1.0)
+    hit = np.zeros(len(ys), dtype=bool)
+    for x in (xc - a, xc + a):
+        discs = shapely.buffer(shapely.points(np.full(len(ys), x), ys), rr, quad_segs=8)
+        hit |= shapely.intersects(discs, taken)
+    free = [float(y) for y in ys[~hit]]
     if not free:
         return []
     return [free[0], free[-1]] if free[-1] - free[0] > 4 * rr else [free[0]]

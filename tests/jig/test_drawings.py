@@ -175,3 +175,24 @@ def test_svg_size_in_mm_and_a_measured_spacing(example_plan):
     # the former discs' cut circles have the Plan's radii
     radii = sorted(float(c.get("r")) for c in groups["cut"].iter(f"{SVG}circle"))
     assert radii == pytest.approx(sorted(fm.radius_mm for fm in f.formers), abs=TOL)
+
+
+def test_write_jig_files_checks_every_target_before_writing(long_plan, tmp_path):
+    from fabplan.render.jigfiles import write_jig_files
+    from fabplan.errors import FabplanError
+
+    s = JigSettings(bed_mm=(600.0, 400.0))
+    paths = write_jig_files(long_plan, s, tmp_path / "out", ("dxf", "svg"), False)
+    names = sorted(p.name for p in paths)
+    beds = len(layout_jig(long_plan, s).beds)
+    assert beds >= 2 and len(names) == 2 * beds
+    assert names[0] == "design-jig-1.dxf"  # a design read from text has no file name
+    # one existing target blocks the whole run; nothing else is touched
+    keep = {p: p.read_bytes() for p in paths}
+    paths[-1].write_bytes(b"mine")
+    paths[0].unlink()
+    with pytest.raises(FabplanError, match="already exists"):
+        write_jig_files(long_plan, s, tmp_path / "out", ("dxf", "svg"), False)
+    assert not paths[0].exists() and paths[-1].read_bytes() == b"mine"
+    write_jig_files(long_plan, s, tmp_path / "out", "dxf,svg", True)
+    assert {p: p.read_bytes() for p in paths} == keep

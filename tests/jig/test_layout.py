@@ -7,6 +7,8 @@ import dataclasses
 import math
 
 import pytest
+from hypothesis import given, settings
+from hypothesis import strategies as st
 from shapely.geometry import LineString, Point, box
 
 from fabplan.jig.layout import layout_jig
@@ -236,3 +238,15 @@ def test_end_plate_labels_stay_on_their_plates(long_plan):
                     t = it.shape
                     assert x0 <= t.at[0] and t.at[0] + t.width <= x1
                     assert y0 <= t.at[1] <= y1
+
+
+@settings(max_examples=15, deadline=None, derandomize=True)
+@given(w=st.floats(150.0, 1300.0), h=st.floats(150.0, 900.0),
+       split=st.sampled_from(["sections", "end-plates"]), kerf=st.floats(0.0, 1.0))
+def test_any_bed_gets_parts_inside_it_and_apart(long_plan, w, h, split, kerf):
+    layout = layout_jig(long_plan, JigSettings(bed_mm=(w, h), split=split, kerf_mm=kerf))
+    _check_beds(layout)
+    kinds = [pl.part.kind for bed in layout.beds for pl in bed.parts]
+    # either the plate made it (whole or in pieces) or a finding says why not
+    assert {"plate", "section", "end-plate"} & set(kinds) or \
+        "jig-too-big" in {f.code for f in layout.findings}
