@@ -125,6 +125,11 @@ def test_bender_wide_spacing_gets_square_ends(write_design):
     # the recomputed element still closes on its feed gap
     assert e.path.closure_error() < 1e-6
     assert len(e.forming.tool_marks) == 4 and not e.forming.formers
+    from fabplan.render.report import plan_to_text
+
+    text = plan_to_text(plan)
+    assert "Bender marks, in bend order" in text and "die radius" in text
+    assert "square-ends-substituted" in text
 
 
 def test_bender_narrow_spacing_cannot_be_made(run_cli, write_design):
