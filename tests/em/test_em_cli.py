@@ -185,10 +185,12 @@ def test_the_templates_commented_electrical_table_is_valid():
 
     t = resources.files("fabplan").joinpath("templates", "folded-dipole.toml").read_text("utf-8")
     head, tail = t.split("# Electrical check (optional)")
+    block = tail.split("\n\n")[0].split("\n")[2:]  # up to the first blank line
     body = "\n".join(line[2:] if line.startswith("# ") else ("" if line.strip() == "#" else line)
-                     for line in tail.split("\n")[2:])
+                     for line in block)
+    rest = "\n\n" + "\n\n".join(tail.split("\n\n")[1:])
     body = body.replace('ground_height = "2 m"', "")  # free space: no height
-    s = parse_design(head + body).electrical
+    s = parse_design(head + body + rest).electrical
     assert isinstance(s.chain.matching, CoaxBalun) and s.chain.feed_line is not None
     assert s.target_hz == 440e6 and s.reference_ohm == 200.0 and s.power_w == 50.0
     assert not math.isnan(s.chain.feed_line.matched_loss_db(440e6))
