@@ -19,6 +19,7 @@ Pure: no files, no printing. Hz and mm.
 from __future__ import annotations
 
 import dataclasses
+import logging
 import re
 from dataclasses import dataclass
 from typing import Any
@@ -30,8 +31,10 @@ from ..geometry.shapes import SHAPES
 from ..units import IN, parse_length
 from .config import ElectricalSettings
 from .matching import C0_M_S
-from .planning import ModelFactory, element_model, least_swr, resonance
 from .model import UNCERTAINTY_FRAC
+from .planning import ModelFactory, element_model, least_swr, resonance
+
+log = logging.getLogger("fabplan")
 
 __all__ = ["TuneResult", "MarkChange", "MeasuredResult", "feature_hz", "tune",
            "from_measurement", "proportional_length", "rewrite_design", "length_text",
@@ -174,7 +177,10 @@ class _Evaluator:
         f_max = max(self.settings.sweep_to_hz, expect_hz * (1 + span_frac))
         model = self.factory(self.plan, self.element, self.settings, f_max, params)
         self.models += 1
-        return feature_hz(model, self.settings, self.tune_for, expect_hz, span_frac, points)
+        f = feature_hz(model, self.settings, self.tune_for, expect_hz, span_frac, points)
+        log.debug("tune %s: %s = %.4f mm -> %.6f MHz (%d unknowns)", self.element.name,
+                  self.key, value_mm, f / 1e6, getattr(model, "unknowns", -1))
+        return f
 
 
 def _core_element(plan, element, params):
