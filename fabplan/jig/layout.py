@@ -27,7 +27,7 @@ from .shapes import (Arc, Circle, Contour, Item, Line, P, RefPoint, Text, clip_a
                      rounded_rect, transform_shape)
 
 __all__ = ["Part", "Placed", "Bed", "JigLayout", "layout_jig", "element_parts",
-           "calibration_part", "all_shapes"]
+           "calibration_parts", "all_shapes"]
 
 
 @dataclass(frozen=True)
@@ -657,18 +657,17 @@ def _helix_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
 
 
 # -- calibration --------------------------------------------------------------
-def calibration_part() -> Part:
+def calibration_parts() -> list[Part]:
     """Engraved squares of 100 mm and 4 in to check the machine's scale."""
     from shapely.geometry import box
 
-    items: list[Item] = []
-    x = 0.0
+    out = []
     for size, label in ((100.0, "100 mm square"), (4 * IN, "4 in square")):
-        items.append(Item("engrave", rounded_rect(x, 0.0, x + size, size), f"calibration {label}"))
-        items.append(Item("engrave", Text((x + 5.0, size / 2), label, 5.0), "label"))
-        x += size + 8.0
-    return Part("calibration squares", "calibration", "", tuple(items),
-                box(-1.0, -1.0, x - 7.0, 4 * IN + 1.0))
+        items = (Item("engrave", rounded_rect(0.0, 0.0, size, size), f"calibration {label}"),
+                 Item("engrave", Text((5.0, size / 2), label, 5.0), "label"))
+        out.append(Part(f"calibration {label}", "calibration", "", items,
+                        box(-1.0, -1.0, size + 1.0, size + 1.0)))
+    return out
 
 
 # -- beds -----------------------------------------------------------------------
@@ -783,7 +782,7 @@ def layout_jig(plan, settings: JigSettings) -> JigLayout:
         parts.extend(got)
         findings.extend(found)
     if parts:
-        parts.append(calibration_part())
+        parts.extend(calibration_parts())
     findings.extend(_router_findings(parts, settings))
     beds, found = _pack(parts, settings)
     findings.extend(found)

@@ -122,6 +122,14 @@ def test_no_two_cut_parts_overlap_in_the_file(long_plan, example_plan, bed, read
                 assert 0 <= shapes[i].bounds[0] and shapes[i].bounds[2] <= b.width_mm
                 for j in range(i + 1, len(shapes)):
                     assert not shapes[i].intersects(shapes[j])
+            # the file's outlines are the layout's, placed and turned: same total area
+            placed = [pl.outline() for pl in b.parts if pl.part.kind != "calibration"
+                      and pl.part.kind != "mandrel"]
+            assert sum(x.area for x in shapes) == pytest.approx(sum(x.area for x in placed),
+                                                                rel=1e-3)
+            assert Polygon().union(shapes[0]).symmetric_difference(
+                min(placed, key=lambda x: x.centroid.distance(shapes[0].centroid))).area \
+                < 1e-3 * shapes[0].area
 
 
 def test_inch_drawing_scales_every_figure(example_plan, read_dxf, datum_transform, to_bed):
