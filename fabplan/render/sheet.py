@@ -222,15 +222,20 @@ def _cut_list(ctx: _Ctx) -> list:
 
 
 def _marks(ctx: _Ctx, e) -> list:
+    mm_first = ctx.unit == "mm"
+
+    def pair(x: float) -> list[str]:
+        both = [_fmt_in(x, ctx.den), format_mm(x)]
+        return both[::-1] if mm_first else both
+
     rows = []
     for mid, m in zip(mark_ids(e), e.marks):
         side = "-" if abs(m.from_centre_mm) < 1e-9 else ("A" if m.from_centre_mm < 0 else "B")
-        d = abs(m.from_centre_mm)
-        rows.append([mid, m.label, side, _fmt_in(d, ctx.den), format_mm(d),
-                     _fmt_in(m.from_end_mm, ctx.den), format_mm(m.from_end_mm)])
+        rows.append([mid, m.label, side, *pair(abs(m.from_centre_mm)), *pair(m.from_end_mm)])
+    units = ["mm", "in"] if mm_first else ["in", "mm"]
     out = [ctx.p("Marks from the centre of the stock", ctx.h3)]
-    out += ctx.table(["mark", "what", "side", "from centre in", "from centre mm",
-                      "from end A in", "from end A mm"], rows,
+    out += ctx.table(["mark", "what", "side", *(f"from centre {u}" for u in units),
+                      *(f"from end A {u}" for u in units)], rows,
                      [0.07, 0.27, 0.06, 0.15, 0.15, 0.15, 0.15], "lllrrrr",
                      caption="Find the centre of the cut piece first and mark it; measure every "
                              "other mark from it towards end A or end B (tape measure to 1/"

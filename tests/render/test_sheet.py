@@ -153,3 +153,17 @@ sweep = { from = "420 MHz", to = "460 MHz", step = "10 MHz" }
         page = next(pg for pg in pdf.pages if "frequency, MHz" in pg.extract_text())
         # the plotted SWR curve: one polyline with a vertex per frequency
         assert any(len(c["pts"]) == len(sw.freq_hz) for c in page.curves + page.lines)
+
+
+def test_mm_shop_gets_millimetres_first(write_design):
+    text = EXAMPLE.read_text().replace('units = "in"', 'units = "mm"')
+    p = make_plan(load_design(write_design(text)))
+    assert p.design.shop.units == "mm"
+    flat = _flat(sheet_pdf(p, "a4"))
+    e = p.elements[0]
+    assert f"Cut length {format_mm(e.cut_length_mm)} ({format_inches(e.cut_length_mm, p.design.shop.fraction)})" \
+        in flat
+    for m in e.marks:
+        d = abs(m.from_centre_mm)
+        side = "-" if d < 1e-9 else ("A" if m.from_centre_mm < 0 else "B")
+        assert f"{m.label} {side} {format_mm(d)} {format_inches(d, p.design.shop.fraction)}" in flat
