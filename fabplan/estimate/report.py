@@ -111,9 +111,13 @@ def order_text(o: Order, unit: str, den: int) -> str:
     out.append(f"Weight built       {weight_text(o.total_weight_kg, unit)} (elements "
                f"{weight_text(o.elements_weight_kg, unit)}, items "
                f"{weight_text(o.items_weight_kg, unit)})")
-    out.append(f"Weight to ship     {weight_text(o.shipping_weight_kg, unit)} (stock "
-               f"{weight_text(o.stock_weight_kg, unit)}, items "
-               f"{weight_text(o.items_weight_kg, unit)})")
+    if o.offers:
+        out.append(f"Weight to ship     {weight_text(o.shipping_weight_kg, unit)} (stock "
+                   f"{weight_text(o.stock_weight_kg, unit)}, items "
+                   f"{weight_text(o.items_weight_kg, unit)})")
+    else:
+        out.append("Weight to ship     not known until stock is offered (stock bought is "
+                   "longer than the cuts)")
     if o.total_cost is not None:
         out.append(f"Total cost         {_money(cur, o.total_cost)} (stock "
                    f"{_money(cur, o.stock_cost)}, items {_money(cur, o.items_cost or 0.0)})")
@@ -226,8 +230,7 @@ def compare_text(a, b) -> str:
         both("elements", "; ".join(sa["elements"]), "; ".join(sb["elements"])),
         both("weight built", weight_text(oa.total_weight_kg, unit),
              weight_text(ob.total_weight_kg, unit)),
-        both("weight to ship", weight_text(oa.shipping_weight_kg, unit),
-             weight_text(ob.shipping_weight_kg, unit)),
+        both("weight to ship", _shipping(oa, unit), _shipping(ob, unit)),
         both("buy", "; ".join(sa["buy"]) or "-", "; ".join(sb["buy"]) or "-"),
         both("utilisation", _pct(oa.utilisation), _pct(ob.utilisation)),
         both("total cost", _money(oa.currency, oa.total_cost), _money(ob.currency, ob.total_cost)),
@@ -236,9 +239,15 @@ def compare_text(a, b) -> str:
     out = [table(["", "A", "B"], rows)]
     if sa["elements"] != sb["elements"]:
         out.append("note: the two designs do not build the same elements and quantities")
-    if sa["currency"] != sb["currency"]:
+    if (sa["currency"] is None) != (sb["currency"] is None):
+        out.append("note: only one of the designs prices its stock")
+    elif sa["currency"] != sb["currency"]:
         out.append("note: the two designs price in different currencies")
     return "\n".join(out) + "\n"
+
+
+def _shipping(o: Order, unit: str) -> str:
+    return weight_text(o.shipping_weight_kg, unit) if o.offers else "- (no stock offered)"
 
 
 def _pct(x: float | None) -> str:
