@@ -134,3 +134,34 @@ def test_cover_bound_against_hand_counts():
 def test_a_piece_longer_than_all_stock_is_refused():
     with pytest.raises(ValueError):
         pack([3100], 0, [StockOption(3000, 1.0)])
+
+
+def _milp_optimum(lengths, kerf, usable) -> int:
+    """Fewest sticks by scipy's MILP over every cutting pattern (an independent check)."""
+    import itertools
+
+    import numpy as np
+    from scipy.optimize import Bounds, LinearConstraint, milp
+
+    kinds = sorted(set(lengths))
+    demand = [lengths.count(x) for x in kinds]
+    cap = usable + kerf
+    ranges = [range(int(cap // (x + kerf)) + 1) for x in kinds]
+    pats = [p for p in itertools.product(*ranges)
+            if any(p) and sum(n * (x + kerf) for n, x in zip(p, kinds)) <= cap + 1e-9]
+    a = np.array(pats, dtype=float).T
+    res = milp(np.ones(len(pats)), constraints=LinearConstraint(a, demand, np.inf),
+               integrality=np.ones(len(pats)), bounds=Bounds(0, np.inf))
+    return int(round(res.fun))
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3])
+def test_large_orders_of_few_lengths_match_an_integer_program(seed):
+    import random
+
+    rng = random.Random(seed)
+    kinds = [round(rng.uniform(400, 1300), 1) for _ in range(4)]
+    lengths = [rng.choice(kinds) for _ in range(rng.randint(100, 250))]
+    p = pack(lengths, 1.5, [StockOption(3038, 20.0)])
+    _check_valid(p, lengths, 1.5, [StockOption(3038, 20.0)])
+    assert len(p.bins) == _milp_optimum(lengths, 1.5, 3038)
