@@ -14,13 +14,17 @@ prices; `pack` looks for the cheapest set of stock pieces:
    piece moved to the cheapest offer that still holds its cuts; and a
    sequential pattern fill that repeatedly cuts the fullest piece of the offer
    with the lowest cost per millimetre used;
-2. an exact branch and bound over the cuts (small orders), and over the cuts of
-   the least-used stock pieces (large orders);
+2. exact searches: a branch and bound over the cuts (orders of up to
+   EXACT_ITEMS cuts); for larger orders of few distinct lengths, an integer
+   program over every cutting pattern (scipy's HiGHS interface, imported only
+   then); otherwise a branch and bound over the cuts of the least-used pieces;
 3. lower bounds: the cheapest set of stock whose total capacity covers the total
-   size, and the count ceil(sum(l + k) / (U + k)) for the longest stock.
+   size (each piece's capacity cut to the fullest it can be filled with these
+   lengths), and the count ceil(sum(l + k) / (U + k)) for the longest stock.
+   A plan that meets the cost bound is proven the cheapest.
 
-Pure functions, deterministic (no clocks, no randomness: the exact search
-stops after a fixed number of nodes).
+Pure functions, deterministic (no clocks, no randomness: the searches stop
+after a fixed number of nodes).
 """
 
 from __future__ import annotations
