@@ -223,6 +223,13 @@ def _plate_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
     pin_r = s.pin_diameter_mm / 2
     off = d / 2 + pin_r
     pins: list = []
+    reach = d / 2 + 2.0  # half-length of an engraved mark across the conductor
+    ticks = []
+    for m in f.jig_marks:
+        nx, ny = _normal(m.direction)
+        p = m.point_mm
+        ticks.append(LineString([(p[0] - reach * nx, p[1] - reach * ny),
+                                 (p[0] + reach * nx, p[1] + reach * ny)]))
     for seg in segs:
         if not isinstance(seg, Line) or seg.length < s.pin_diameter_mm:
             continue
@@ -243,6 +250,8 @@ def _plate_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
                     continue
                 if any(Point(c).distance(Point(q)) < 2 * pin_r + 2.0 for q in pins):
                     continue
+                if any(t.distance(Point(c)) < pin_r + 1.5 for t in ticks):
+                    continue  # a pin would hide a mark
                 pins.append(c)
     for c in pins:
         items.append(_hole(c, s.pin_diameter_mm, g, "pin-hole"))
@@ -250,18 +259,18 @@ def _plate_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
     # engraved marks across the conductor, labelled beside it
     th = max(2.0, 0.7 * s.text_height_mm)
     texts = []
-    blocked = unary_union(keep_out)
+    blocked = unary_union([*keep_out, box(-6.0, -6.0, 11.0, 6.0)])  # and the datum cross
     for m in f.jig_marks:
         p = (m.point_mm[0], m.point_mm[1])
         nx, ny = _normal(m.direction)
-        reach = d / 2 + 2.0
         items.append(Item("engrave", Line((p[0] - reach * nx, p[1] - reach * ny),
                                           (p[0] + reach * nx, p[1] + reach * ny)),
                           f"mark {m.kind}: {m.label}"))
-        for side in (1, -1):
+        for extra, side in ((0.0, 1), (0.0, -1), (1.5 * th, 1), (1.5 * th, -1), (3 * th, 1),
+                            (3 * th, -1)):
             txt = Text((0.0, 0.0), m.label, th)
             extent = (th / 2 if abs(ny) > 0.5 else txt.width / 2) + 1.0
-            dist = d / 2 + s.pin_diameter_mm + 1.0 + extent
+            dist = d / 2 + s.pin_diameter_mm + 1.0 + extent + extra
             cx, cy = p[0] + side * dist * nx, p[1] + side * dist * ny
             txt = Text((cx - txt.width / 2, cy - th / 2), m.label, th)
             boxed = _text_box(txt)
