@@ -26,7 +26,8 @@ from ..errors import DesignError
 from ..units import IN, format_inches, format_mm
 
 __all__ = ["PAPERS", "SHEET_PAPERS", "TEMPLATE_PAPERS", "Paper", "PT_PER_MM", "Layout",
-           "ElementGeometry", "element_geometry", "merge_labels", "tile_grid", "template_pdf", "paper_size",
+           "ElementGeometry", "element_geometry", "merge_labels", "tile_grid", "template_pdf",
+           "paper_size",
            "side_text"]
 
 PT_PER_MM = 72 / 25.4
@@ -550,7 +551,8 @@ def calibration_bars(c, x_pt: float, y_pt: float) -> None:
         c.setLineWidth(0.3)
         n = round(length / step)
         for i in range(n + 1):
-            c.line(x_pt + i * step, y + 1.2 * k, x_pt + i * step, y + (2.4 if i % 2 == 0 else 1.8) * k)
+            tick = (2.4 if i % 2 == 0 else 1.8) * k
+            c.line(x_pt + i * step, y + 1.2 * k, x_pt + i * step, y + tick)
     c.setFont("Helvetica", 6.5)
     c.drawString(x_pt + 4 * 72 + 6, y_pt + 2.5 * k, "measure these: if a bar is not "
                  "exactly its length, the print is not to scale")
@@ -687,13 +689,15 @@ def _assembly_map(c, plan, layout, items, pw, ph, cols, rows, cw, ch, overlap, g
     c.setFont("Helvetica-Bold", 13)
     c.drawString(left, top - 13, f"{plan.design.project}")
     c.setFont("Helvetica", 9.5)
+    name = paper.upper() if paper == "a4" else paper.title()
+    turn = "landscape" if pw > ph else "portrait"
     lines = [
         f"Full-scale template: {cols * rows} tile(s), {rows} row(s) x {cols} column(s), on "
-        f"{paper.upper() if paper == 'a4' else paper.title()} ({'landscape' if pw > ph else 'portrait'}); "
-        f"this map is page 1 of {total}.",
+        f"{name} ({turn}); this map is page 1 of {total}.",
         "1. Print every page at actual size (100 %), no 'fit to page'. Measure the 100 mm and",
         "    4 in bars at the foot of each page with a rule before you use any page.",
-        f"2. Tiles overlap by {format_mm(overlap, 0)}. Lay each tile over its left and lower neighbour",
+        f"2. Tiles overlap by {format_mm(overlap, 0)}. Lay each tile over its left and lower "
+        "neighbour",
         "    so that the numbered crosses with the same number sit exactly on top of each other.",
         "3. Tape the tiles flat. Lay the straight stock on the marking strip, centre on the",
         "    centre tick, and mark at each tick; check the bent element against the 1:1 drawing.",

@@ -542,14 +542,6 @@ def _order(ctx: _Ctx) -> list:
     return out
 
 
-def _ext_text(ctx: _Ctx, ext) -> list:
-    """A later stage's own text block, kept as it formats it."""
-    from reportlab.platypus import Preformatted
-
-    text = ext.text(ctx.unit, ctx.den)
-    return [Preformatted(text, ctx.small)]
-
-
 def _electrical(ctx: _Ctx) -> list:
     """The electrical check: a summary per element and its SWR plot."""
     items = [e for e in ctx.plan.elements if e.electrical is not None]

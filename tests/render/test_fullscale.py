@@ -25,7 +25,7 @@ from fabplan.render.fullscale import (CENTRE_TICK_MM, CROSS_MM, OVERLAP_MM, STRI
                                       template_pdf, tile_count)
 
 EXAMPLE = Path(__file__).resolve().parents[2] / "examples" / "club-uhf-folded-dipoles.toml"
-PT = 72 / 25.4  # points per millimetre: 1 in = 25.4 mm = 72 pt (PDF user space, ISO 32000-1 8.3.2.3)
+PT = 72 / 25.4  # pt per mm: 1 in = 25.4 mm = 72 pt (source: ISO 32000-1, 8.3.2.3 user space)
 
 
 @pytest.fixture(scope="module")

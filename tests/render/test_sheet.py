@@ -71,7 +71,8 @@ def test_every_page_numbered(a4):
 def test_project_stock_scale_and_safety(example_plan, a4):
     text = _flat(a4)
     assert example_plan.design.project in text
-    assert example_plan.stock.material_source.split(":")[0] in text  # where the properties come from
+    # where the material's properties come from
+    assert example_plan.stock.material_source.split(":")[0] in text
     assert re.search(r"Scale 1:\d+(\.\d+)? when printed at 100 %", text)
     for head, _ in SAFETY:
         assert head in text
@@ -161,9 +162,10 @@ def test_mm_shop_gets_millimetres_first(write_design):
     assert p.design.shop.units == "mm"
     flat = _flat(sheet_pdf(p, "a4"))
     e = p.elements[0]
-    assert f"Cut length {format_mm(e.cut_length_mm)} ({format_inches(e.cut_length_mm, p.design.shop.fraction)})" \
+    den = p.design.shop.fraction
+    assert f"Cut length {format_mm(e.cut_length_mm)} ({format_inches(e.cut_length_mm, den)})" \
         in flat
     for m in e.marks:
         d = abs(m.from_centre_mm)
         side = "-" if d < 1e-9 else ("A" if m.from_centre_mm < 0 else "B")
-        assert f"{m.label} {side} {format_mm(d)} {format_inches(d, p.design.shop.fraction)}" in flat
+        assert f"{m.label} {side} {format_mm(d)} {format_inches(d, den)}" in flat
