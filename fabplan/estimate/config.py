@@ -6,6 +6,9 @@
     spares = 1                # spare pieces cut per element, beyond its quantity
     scrap_percent = 5         # and/or this share of each element's quantity, rounded up
 
+    [purchase.spares_by_element]
+    "driven element" = 2      # spare pieces for this element instead of `spares`
+
     [[purchase.offer]]        # one per stock length or source; the cheapest mix is bought
     name = "10 ft straight"
     length = "10 ft"
@@ -25,6 +28,7 @@ Every key is checked; errors name the field.
 
 from __future__ import annotations
 
+import difflib
 from dataclasses import dataclass
 
 from ..config import Section
@@ -74,6 +78,7 @@ class PurchaseSettings:
     spares: int = 0  # per element
     scrap_percent: float = 0.0  # of each element's quantity, rounded up to whole pieces
     given: bool = False  # the design has a [purchase] table
+    spares_by_element: tuple[tuple[str, int], ...] = ()  # overrides `spares` for these
 
 
 def read_purchase(top: Section, design) -> PurchaseSettings:
@@ -95,8 +100,26 @@ def read_purchase(top: Section, design) -> PurchaseSettings:
             raise DesignError("two offers have the same name", field=f"{offers[i].field}.name",
                               value=name)
     items = tuple(_read_item(s) for s in sec.tables("item"))
+    by_element = _read_spares_by_element(sec.table("spares_by_element", None), design)
     sec.finish()
-    return PurchaseSettings(currency, offers, items, spares, scrap, True)
+    return PurchaseSettings(currency, offers, items, spares, scrap, True, by_element)
+
+
+def _read_spares_by_element(sec: Section | None, design) -> tuple[tuple[str, int], ...]:
+    """`[purchase.spares_by_element]`: element name = spare pieces, for those elements."""
+    if sec is None:
+        return ()
+    names = [e.name for e in design.elements]
+    out = []
+    for key in sec.keys():
+        if key not in names:
+            near = difflib.get_close_matches(key, names, n=1, cutoff=0.5)
+            hint = f"did you mean {near[0]!r}? " if near else ""
+            raise DesignError(f"{hint}no element has this name (elements: {', '.join(names)})",
+                              field=sec.field(key))
+        out.append((key, sec.integer(key, low=0, high=10_000)))
+    sec.finish()
+    return tuple(out)
 
 
 def _price(sec: Section) -> float:

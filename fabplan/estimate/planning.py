@@ -22,9 +22,11 @@ from .model import BuyLine, Cut, ElementEstimate, ItemLine, Order, StockPiece
 __all__ = ["apply", "spares_for"]
 
 
-def spares_for(quantity: int, settings: PurchaseSettings) -> int:
-    """Extra pieces cut for an element of `quantity`: spares plus the scrap share, rounded up."""
-    return settings.spares + math.ceil(quantity * settings.scrap_percent / 100 - 1e-9)
+def spares_for(name: str, quantity: int, settings: PurchaseSettings) -> int:
+    """Extra pieces cut for element `name` of `quantity`: its spares (the design's
+    per-element figure unless overridden for it) plus the scrap share, rounded up."""
+    spares = dict(settings.spares_by_element).get(name, settings.spares)
+    return spares + math.ceil(quantity * settings.scrap_percent / 100 - 1e-9)
 
 
 def apply(plan):
@@ -38,7 +40,7 @@ def apply(plan):
     labels: list[tuple[str, bool]] = []
     spares = {}
     for e in plan.elements:
-        spares[e.name] = spares_for(e.quantity, settings)
+        spares[e.name] = spares_for(e.name, e.quantity, settings)
         for n in range(e.quantity + spares[e.name]):
             lengths.append(e.cut_length_mm)
             labels.append((e.name, n >= e.quantity))

@@ -134,3 +134,12 @@ def test_same_input_same_order(hairpin):
     a = plan_to_json(make_plan(parse_design(text)))
     b = plan_to_json(make_plan(parse_design(text)))
     assert a == b
+
+
+def test_spares_for_one_element(hairpin, plan_of):
+    text = hairpin(STICKS.format(extra='spares = 1\n[purchase.spares_by_element]\npin = 3\n'),
+                   quantity=2)
+    assert plan_of(text).elements[0].estimate.spares == 3
+    with pytest.raises(Exception, match="did you mean 'pin'") as err:
+        plan_of(hairpin(STICKS.format(extra='[purchase.spares_by_element]\npun = 3\n')))
+    assert err.value.field == "purchase.spares_by_element.pun"
