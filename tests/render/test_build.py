@@ -99,3 +99,39 @@ def test_bad_paper_is_one_line_exit_2(run_cli, example_path, tmp_path, args):
     lines = proc.stderr.strip().splitlines()
     assert len(lines) == 1 and "--paper" in lines[0] and "Traceback" not in proc.stderr
     assert not target.exists()
+
+
+def test_build_writes_the_sweep_as_csv(run_cli, write_design, tmp_path):
+    """With an [electrical] table the build adds sweep.csv: one row per
+    frequency, the Plan's impedance and SWR (read back with the csv module)."""
+    import csv
+
+    from fabplan.design import load_design
+    from fabplan.plan import make_plan
+
+    design = write_design("""
+[project]
+name = "one folded dipole"
+[stock]
+catalogue = "acr-1/4"
+[[element]]
+name = "fd"
+shape = "folded-dipole"
+side = "11 1/2 in"
+centre_spacing = "1 1/4 in"
+feed_gap = "1/2 in"
+[electrical]
+target = "440 MHz"
+sweep = { from = "420 MHz", to = "460 MHz", step = "10 MHz" }
+""")
+    out = tmp_path / "out"
+    proc = run_cli("build", design, "-o", out)
+    assert proc.returncode in (0, 1), proc.stderr  # 1: error findings, files still written
+    with open(out / BUILD_NAMES["sweep"], newline="") as fh:
+        rows = list(csv.DictReader(fh))
+    sw = make_plan(load_design(design)).elements[0].electrical.sweep
+    assert [float(r["f_hz"]) for r in rows] == pytest.approx(list(sw.freq_hz), abs=0.1)
+    assert [float(r["swr_system"]) for r in rows] == pytest.approx(list(sw.swr_system),
+                                                                   abs=1e-5)
+    assert [float(r["r_ohm"]) for r in rows] == pytest.approx([z.real for z in sw.z_ohm],
+                                                              abs=1e-4)
