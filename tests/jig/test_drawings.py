@@ -204,3 +204,45 @@ def test_write_jig_files_checks_every_target_before_writing(long_plan, tmp_path)
     assert not paths[0].exists() and paths[-1].read_bytes() == b"mine"
     write_jig_files(long_plan, s, tmp_path / "out", "dxf,svg", True)
     assert {p: p.read_bytes() for p in paths} == keep
+
+
+def _svg_arc_centre(p0, p1, r, large, sweep):
+    """Centre of an SVG elliptical arc with rx = ry = r and no rotation, by the
+    endpoint-to-centre conversion of the SVG 1.1 specification (appendix F.6.5)."""
+    x1p, y1p = (p0[0] - p1[0]) / 2, (p0[1] - p1[1]) / 2
+    k = math.sqrt(max(r * r - x1p * x1p - y1p * y1p, 0.0) / (x1p * x1p + y1p * y1p))
+    if large == sweep:
+        k = -k
+    cxp, cyp = k * y1p, -k * x1p
+    return cxp + (p0[0] + p1[0]) / 2, cyp + (p0[1] + p1[1]) / 2
+
+
+def test_svg_plate_corners_bulge_outward(example_plan):
+    import re
+
+    layout = layout_jig(example_plan, JigSettings(kerf_mm=0.2))
+    bed = _plate_bed(layout)
+    root = ET.fromstring(bed_to_svg(layout, bed))
+    plate = next(pl for pl in bed.parts if pl.part.kind == "plate")
+    path = next(p for p in root.iter(f"{SVG}path") if p.get("data-role") == "outline")
+    tokens = re.findall(r"[MLAZ]|-?[\d.]+", path.get("d"))
+    x0, y0, x1, y1 = plate.outline().bounds
+    inside = (x0, bed.height_mm - y1, x1, bed.height_mm - y0)  # SVG y runs down
+    pos, i, arcs = None, 0, 0
+    while i < len(tokens):
+        t = tokens[i]
+        if t in "ML":
+            pos = (float(tokens[i + 1]), float(tokens[i + 2]))
+            i += 3
+        elif t == "A":
+            r = float(tokens[i + 1])
+            large, sweep = int(tokens[i + 4]), int(tokens[i + 5])
+            end = (float(tokens[i + 6]), float(tokens[i + 7]))
+            cx, cy = _svg_arc_centre(pos, end, r, large, sweep)
+            # a convex corner's centre lies inside the plate, one radius from both ends
+            assert inside[0] < cx < inside[2] and inside[1] < cy < inside[3]
+            assert math.dist((cx, cy), end) == pytest.approx(r, abs=1e-3)
+            pos, i, arcs = end, i + 8, arcs + 1
+        else:
+            i += 1
+    assert arcs == 4
