@@ -105,24 +105,35 @@ class _Ctx:
               align: str | None = None, caption: str | None = None):
         """A table with a header row; `widths` are fractions of the frame width;
         `align` one 'l' or 'r' per column. Returns a list of flowables."""
+        from reportlab.pdfbase.pdfmetrics import stringWidth
         from reportlab.platypus import Paragraph, Table, TableStyle
 
         align = align or "l" * len(head)
+        col_w = None if widths is None else [w * self.frame_w for w in widths]
+        room = col_w or [self.frame_w / len(head)] * len(head)
+
+        def cell(c, a, w):
+            if not isinstance(c, str):
+                return c
+            # short figures stay plain text (quick to lay out); anything that
+            # might not fit its column wraps as a paragraph
+            if a == "r" and "\n" not in c and stringWidth(c, "Helvetica", 8) <= w - 7:
+                return c
+            return Paragraph(_esc(c), self.cellr if a == "r" else self.cell)
+
         cells = [[Paragraph(f"<b>{_esc(h)}</b>", self.cellr if a == "r" else self.cell)
                   for h, a in zip(head, align)]]
         for row in rows:
-            cells.append([c if not isinstance(c, str) else
-                          Paragraph(_esc(c), self.cellr if a == "r" else self.cell)
-                          for c, a in zip(row, align)])
-        col_w = None if widths is None else [w * self.frame_w for w in widths]
+            cells.append([cell(c, a, w) for c, a, w in zip(row, align, room)])
         t = Table(cells, colWidths=col_w, repeatRows=1, hAlign="LEFT")
         t.setStyle(TableStyle([
             ("GRID", (0, 0), (-1, -1), 0.4, self.colors.Color(0.6, 0.6, 0.6)),
             ("BACKGROUND", (0, 0), (-1, 0), self.colors.Color(0.88, 0.88, 0.88)),
             ("VALIGN", (0, 0), (-1, -1), "TOP"),
+            ("FONT", (0, 1), (-1, -1), "Helvetica", 8, 9.5),
             ("TOPPADDING", (0, 0), (-1, -1), 2), ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
             ("LEFTPADDING", (0, 0), (-1, -1), 3), ("RIGHTPADDING", (0, 0), (-1, -1), 3),
-        ]))
+        ] + [("ALIGN", (i, 1), (i, -1), "RIGHT") for i, a in enumerate(align) if a == "r"]))
         out = []
         if caption:
             out.append(self.p(caption, self.caption))
