@@ -86,6 +86,11 @@ class JigLayout:
     notes: tuple[str, ...] = ()
 
 
+# a rectangular plate is simpler to cut and clamp: it is chosen unless the convex
+# outline saves more than this factor of area (common practice, no source)
+RECTANGLE_PREFERENCE = 1.15
+
+
 # -- text helpers -------------------------------------------------------------
 def _len(mm: float, units: str) -> str:
     """A drawing length in the drawing's unit first, then the other."""
@@ -298,29 +303,87 @@ def _plate_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
     items.append(Item("reference", RefPoint((10.0, 0.0), "datum +x"), "datum +x"))
     items.append(Item("reference", Line((-5.0, 0.0), (10.0, 0.0)), "datum"))
     items.append(Item("reference", Line((0.0, -5.0), (0.0, 5.0)), "datum"))
-    bx0, by0, bx1, by1 = unary_union([body, *texts, Point(0, 0).buffer(10)]).bounds
+    everything = unary_union([body, *texts, Point(0, 0).buffer(10)])
+    bx0, by0, bx1, by1 = everything.bounds
     m = s.margin_mm
-    rect = (bx0 - m, by0 - m, bx1 + m, by1 + m)
-    inset = m / 2
-    for cx, cy in ((rect[0] + inset, rect[1] + inset), (rect[2] - inset, rect[1] + inset),
-                   (rect[2] - inset, rect[3] - inset), (rect[0] + inset, rect[3] - inset)):
-        items.append(_hole((cx, cy), s.mounting_hole_mm, g, "mounting-hole"))
-    mounting = [Point(it.shape.centre).buffer(s.mounting_hole_mm / 2) for it in items
-                if it.role == "mounting-hole"]
-    board = _Board(items, keep_out + mounting + [box(*t.bounds) for t in texts], texts,
-                   label_at, tuple(texts[first_label:]))
-    plate = _plate(e.name, "plate", f"{e.name}: base plate", items, rect, s,
-                   (s.corner_radius_mm,) * 4)
-    parts: list[Part] = []
     usable = (s.bed_mm[0] - 2 * s.part_gap_mm, s.bed_mm[1] - 2 * s.part_gap_mm)
-    if _fits(plate, usable):
-        parts.append(plate)
+    parts: list[Part] = []
+    # the convex outline of everything on the plate grown by the margin, when it
+    # saves material over the simpler rectangle
+    hull = _hull_plate(e, s, everything, items)
+    rect = (bx0 - m, by0 - m, bx1 + m, by1 + m)
+    rect_area = (rect[2] - rect[0]) * (rect[3] - rect[1])
+    if hull is not None and _fits(hull, usable) and \
+            hull.outline.area * RECTANGLE_PREFERENCE < rect_area:
+        parts.append(hull)
     else:
-        split, found = _split_plate(e, s, board, rect, usable)
-        parts.extend(split)
-        findings.extend(found)
+        # a rectangle, cut into pieces that fit the bed
+        inset = m / 2
+        for cx, cy in ((rect[0] + inset, rect[1] + inset), (rect[2] - inset, rect[1] + inset),
+                       (rect[2] - inset, rect[3] - inset), (rect[0] + inset, rect[3] - inset)):
+            items.append(_hole((cx, cy), s.mounting_hole_mm, g, "mounting-hole"))
+        mounting = [Point(it.shape.centre).buffer(s.mounting_hole_mm / 2) for it in items
+                    if it.role == "mounting-hole"]
+        board = _Board(items, keep_out + mounting + [box(*t.bounds) for t in texts], texts,
+                       label_at, tuple(texts[first_label:]))
+        plate = _plate(e.name, "plate", f"{e.name}: base plate", items, rect, s,
+                       (s.corner_radius_mm,) * 4)
+        if _fits(plate, usable):
+            parts.append(plate)
+        else:
+            split, found = _split_plate(e, s, board, rect, usable)
+            parts.extend(split)
+            findings.extend(found)
     parts.extend(_former_parts(e, s))
     return parts, findings
+
+
+def _hull_plate(e, s: JigSettings, everything, items: list[Item]) -> Part | None:
+    """The plate as the convex outline of everything on it, grown by the margin:
+    straight edges and true arcs of the corner radius. Mounting holes go in the
+    margin at the sharpest corners. None when the outline degenerates."""
+    from shapely.geometry import Point
+    from shapely.geometry.polygon import orient
+
+    tol = 0.5  # mm: simplifying the hull may cut inside it by this much
+    hull = orient(everything.convex_hull.simplify(tol), 1.0)
+    if hull.geom_type != "Polygon" or len(hull.exterior.coords) < 4:
+        return None
+    pts = [(float(x), float(y)) for x, y in hull.exterior.coords[:-1]]
+    n = len(pts)
+    r = min(s.corner_radius_mm, s.margin_mm)
+    normals = []
+    for i in range(n):
+        (ax, ay), (bx, by) = pts[i], pts[(i + 1) % n]
+        ln = math.hypot(bx - ax, by - ay)
+        normals.append(((by - ay) / ln, -(bx - ax) / ln))  # outward, counter-clockwise
+    # mitred offset by (margin - r + tol), then round corners of radius r
+    dist = s.margin_mm - r + tol
+    corners = []
+    for i in range(n):
+        n1, n2 = normals[i - 1], normals[i]
+        k = dist / (1.0 + n1[0] * n2[0] + n1[1] * n2[1])
+        corners.append((pts[i][0] + k * (n1[0] + n2[0]), pts[i][1] + k * (n1[1] + n2[1])))
+    nominal = Contour(tuple(Line(corners[i], corners[(i + 1) % n]) for i in range(n)))
+    outline = offset_contour(nominal, r + s.kerf_mm / 2)
+    # mounting holes: half the margin in from both edges at the sharpest corners
+    turns = sorted(range(n), key=lambda i: -math.acos(max(-1.0, min(1.0, normals[i - 1][0]
+                   * normals[i][0] + normals[i - 1][1] * normals[i][1]))))
+    holes: list[P] = []
+    for i in turns:
+        n1, n2 = normals[i - 1], normals[i]
+        k = (s.margin_mm / 2) / (1.0 + n1[0] * n2[0] + n1[1] * n2[1])
+        c = (pts[i][0] + k * (n1[0] + n2[0]), pts[i][1] + k * (n1[1] + n2[1]))
+        if all(math.dist(c, h) > 6 * s.mounting_hole_mm for h in holes) and \
+                not everything.intersects(Point(c).buffer(s.mounting_hole_mm)):
+            holes.append(c)
+        if len(holes) == 4:
+            break
+    g = s.kerf_mm / 2
+    plate_items = [Item("cut", outline, "outline"), *items,
+                   *(_hole(c, s.mounting_hole_mm, g, "mounting-hole") for c in holes)]
+    return Part(f"{e.name}: base plate", "plate", e.name, tuple(plate_items),
+                contour_to_polygon(outline))
 
 
 def _label_lines(plan, e, s: JigSettings, width: int) -> list[str]:

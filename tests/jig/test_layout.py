@@ -255,3 +255,37 @@ def test_any_bed_gets_parts_inside_it_and_apart(long_plan, w, h, split, kerf):
     # either the plate made it (whole or in pieces) or a finding says why not
     assert {"plate", "section", "end-plate"} & set(kinds) or \
         "jig-too-big" in {f.code for f in layout.findings}
+
+
+@pytest.mark.parametrize("shape", ["delta-loop", "rect-loop", "hairpin", "folded-dipole"])
+def test_the_plate_keeps_its_margin_round_everything(shape):
+    from importlib import resources
+
+    from fabplan.design import parse_design
+    from fabplan.plan import make_plan
+
+    text = resources.files("fabplan").joinpath("templates", f"{shape}.toml").read_text("utf-8")
+    plan = make_plan(parse_design(text))
+    s = JigSettings(bed_mm=(1200.0, 900.0))
+    layout = layout_jig(plan, s)
+    plate = next(pl.part for bed in layout.beds for pl in bed.parts if pl.part.kind == "plate")
+    outline = plate.outline
+    inner = []
+    for it in plate.items:
+        sh = it.shape
+        if it.role == "mounting-hole":
+            # a mounting hole lies inside the plate and clear of everything engraved
+            assert outline.contains(Point(sh.centre).buffer(sh.radius + 2.0))
+            continue
+        if isinstance(sh, Circle):
+            inner.append(Point(sh.centre).buffer(sh.radius))
+        elif isinstance(sh, Text):
+            inner.append(box(sh.at[0], sh.at[1], sh.at[0] + sh.width, sh.at[1] + sh.height))
+    # shapely: everything on the plate stays a margin inside its edge
+    for g in inner:
+        assert outline.exterior.distance(g) >= s.margin_mm - 0.6
+    holes = [it.shape for it in plate.items if it.role == "mounting-hole"]
+    assert len(holes) >= 3
+    if shape == "delta-loop":  # a triangle's plate is not a rectangle
+        x0, y0, x1, y1 = outline.bounds
+        assert outline.area < 0.87 * (x1 - x0) * (y1 - y0)
