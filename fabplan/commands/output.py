@@ -64,6 +64,9 @@ def _write_pdf(design: Path, output: Path, paper: str, force: bool, render) -> N
     """Check the target, plan, render(plan, paper) and write atomically."""
     from ..render.files import check_writable, write_bytes
 
+    if output.is_dir():
+        raise FabplanError("is a folder: give a file name ending in .pdf", field="--output",
+                           value=str(output))
     check_writable(output, force)
     plan = load_plan(design)
     write_bytes(output, render(plan, paper), force)
@@ -76,7 +79,7 @@ paper_help = "Paper size."
 
 @click.command()
 @design_argument
-@click.option("-o", "--output", required=True, type=click.Path(dir_okay=False, path_type=Path),
+@click.option("-o", "--output", required=True, type=click.Path(path_type=Path),
               help="The PDF file to write.")
 @click.option("--paper", default="a4", show_default=True, metavar="a4|letter", help=paper_help)
 @click.option("--force", is_flag=True, help="Replace an existing file.")
@@ -90,7 +93,7 @@ def sheet(design: Path, output: Path, paper: str, force: bool) -> None:
 
 @click.command()
 @design_argument
-@click.option("-o", "--output", required=True, type=click.Path(dir_okay=False, path_type=Path),
+@click.option("-o", "--output", required=True, type=click.Path(path_type=Path),
               help="The PDF file to write.")
 @click.option("--paper", default="a4", show_default=True,
               metavar="a4|letter|roll-610mm|roll-914mm",
@@ -180,7 +183,7 @@ def build_files(design: Path, out_dir: Path, paper: str = "a4", template_paper: 
 @click.command()
 @design_argument
 @click.option("-o", "--output", required=True,
-              type=click.Path(file_okay=False, path_type=Path),
+              type=click.Path(path_type=Path),
               help="The folder to write into (made if missing).")
 @click.option("--paper", default="a4", show_default=True, metavar="a4|letter",
               help="Paper for the build sheet and the template tiles.")
