@@ -94,7 +94,7 @@ class PairIntegrals:
     `static` (4, S_obs, S_src): the moments of 1/(4 pi R) (m), order M00, M01,
     M10, M11 (first index: power of u on the observation segment). For the smooth
     remainder, every pair (flattened row-major) carries the Gauss-point distances
-    `r` (P, q*q) and weights `w` (q*q, 4); near pairs (`near`, flat indices) also
+    `r` (q*q, P) and weights `w` (q*q, 4); near pairs (`near`, flat indices) also
     carry `near_fix` (4, P_near): the exact minus the Gauss moments of R/(4 pi),
     so that the -k^2 R/2 term of the remainder, which has a kink, is integrated
     exactly. (Keeping every pair, not only i <= j, costs less than scattering a
@@ -117,7 +117,7 @@ class PairIntegrals:
         n_o, n_s = self.static.shape[1:]
         if self.symmetric and n_o == n_s:
             # exp(-jkR) on i <= j only, then gathered: pair (j, i) point (a, b) is (i, j) (b, a)
-            q2 = self.r.shape[1]
+            q2 = self.r.shape[0]
             q = int(round(math.sqrt(q2)))
             ti, tj = np.triu_indices(n_o)
             pos = np.empty((n_o, n_o), dtype=np.int64)
@@ -126,10 +126,11 @@ class PairIntegrals:
             pts = np.arange(q2)
             swapped_pts = (pts % q) * q + pts // q
             lower = np.tril(np.ones((n_o, n_o), bool), -1).ravel()
-            base = pos.ravel()[:, None] * q2
-            self._tri_map = (base + np.where(lower[:, None], swapped_pts[None, :],
-                                             pts[None, :])).ravel()
-            self._tri_r = self.r[ti * n_o + tj]
+            # layout (q*q, P): point-major, so the map is point * P_tri + pair
+            n_tri = len(ti)
+            point = np.where(lower[None, :], swapped_pts[:, None], pts[:, None])
+            self._tri_map = (point * n_tri + pos.ravel()[None, :]).ravel()
+            self._tri_r = np.ascontiguousarray(self.r[:, ti * n_o + tj])
 
     def symmetrise(self) -> None:
         """Average M(i, j) with M(j, i) (u and v swapped): the pair set is symmetric, and
@@ -138,25 +139,53 @@ class PairIntegrals:
             self.static = 0.5 * (self.static + self.static[[0, 2, 1, 3]].transpose(0, 2, 1))
 
     def phase(self, k: float) -> np.ndarray:
-        """exp(-j k R) at the smooth-part quadrature points, (P, q*q)."""
+        """exp(-j k R) at the smooth-part quadrature points, (q*q, P)."""
         if self._tri_r is not None and self._tri_map is not None:
             return np.take(np.exp(-1j * k * self._tri_r), self._tri_map).reshape(self.r.shape)
         return np.exp(-1j * k * self.r)
 
-    def smooth(self, k: float, phase: np.ndarray | None = None) -> np.ndarray:
-        """Moments (4, S_obs, S_src) of (exp(-jkR) - 1)/(4 pi R) at wavenumber k (1/m)."""
-        e = self.phase(k) if phase is None else phase
-        inv = self._inv_r
-        re = self._wt @ ((e.real - 1.0) * inv).T
-        im = self._wt @ (e.imag * inv).T
-        mom = re * self.scale
-        mom = mom + 1j * (im * self.scale)
-        if len(self.near):
-            mom[:, self.near] -= (0.5 * k * k) * self.near_fix
-        return mom.reshape(self.static.shape)
+    def prepare(self, obs: SegmentSet, src: SegmentSet) -> None:
+        """Fold the per-pair factors into the data once `static` is final.
 
-    def total(self, k: float, phase: np.ndarray | None = None) -> np.ndarray:
-        return self.static + self.smooth(k, phase)
+        The matrix needs, per pair, the vector-potential moments of the four pairings of
+        rising (u) and falling (1 - u) halves weighted by t_i . t_j, and the scalar-potential
+        moment M00 / (l_i l_j). Both are linear in the moments, so the weights and the
+        per-pair factors absorb them and each frequency costs two small products.
+        """
+        # rows: rising-rising, rising-falling, falling-rising, falling-falling
+        combo = np.array([[0, 0, 0, 1], [0, 0, 1, -1], [0, 1, 0, -1], [1, -1, -1, 1]], float)
+        n_o, n_s = self.static.shape[1:]
+        tt = (obs.direction @ src.direction.T).ravel()
+        inv_ll = (1.0 / (obs.length[:, None] * src.length[None, :])).ravel()
+        flat = self.static.reshape(4, -1)
+        self._static_v = (combo @ flat) * tt
+        self._static_s = flat[0] * inv_ll
+        self._w_v = np.ascontiguousarray((self.w @ combo.T).T)  # (4, q*q)
+        self._w_s = np.ascontiguousarray(self.w[:, 0])[None, :]  # (1, q*q)
+        self._inv_v = self._inv_r * (self.scale * tt)[None, :]
+        self._inv_s = self._inv_r * (self.scale * inv_ll)[None, :]
+        self._fix_v = (combo @ self.near_fix) * tt[self.near]
+        self._fix_s = self.near_fix[0] * inv_ll[self.near]
+        self._shape = (n_o, n_s)
+
+    def fill(self, k: float, phase: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
+        """At wavenumber k (1/m): V (4, S_obs, S_src), the t_i . t_j weighted moments of G
+        for the four half pairings, and S (S_obs, S_src), M00 / (l_i l_j), both complex
+        (G = exp(-jkR) / (4 pi R)). Call `prepare` first."""
+        e = self.phase(k) if phase is None else phase
+        er = e.real - 1.0
+        ei = e.imag
+        v = np.empty(self._static_v.shape, dtype=complex)
+        v.real = self._static_v + self._w_v @ (er * self._inv_v)
+        v.imag = self._w_v @ (ei * self._inv_v)
+        s = np.empty(self._static_s.shape, dtype=complex)
+        s.real = self._static_s + (self._w_s @ (er * self._inv_s))[0]
+        s.imag = (self._w_s @ (ei * self._inv_s))[0]
+        if len(self.near):
+            kk = 0.5 * k * k
+            v[:, self.near] -= kk * self._fix_v
+            s[self.near] -= kk * self._fix_s
+        return v.reshape(4, *self._shape), s.reshape(self._shape)
 
 
 def _weights(u: np.ndarray, wu: np.ndarray, v: np.ndarray, wv: np.ndarray) -> np.ndarray:
@@ -202,7 +231,8 @@ def pair_integrals(obs: SegmentSet, src: SegmentSet, symmetric: bool = False) ->
     # smooth remainder: Gauss grid distances on every pair
     u, w = _gauss01(_Q_SMOOTH)
     n_o, n_s = obs.count, src.count
-    r = np.sqrt(_grid_d2(obs, src, u, centre) + a2[:, :, None]).reshape(n_o * n_s, -1)
+    r = np.ascontiguousarray(
+        np.sqrt(_grid_d2(obs, src, u, centre) + a2[:, :, None]).reshape(n_o * n_s, -1).T)
     w_s = _weights(u, w, u, w)
     scale = (len_prod / (4 * math.pi)).ravel()
 
@@ -219,13 +249,13 @@ def pair_integrals(obs: SegmentSet, src: SegmentSet, symmetric: bool = False) ->
         m_inv, m_r = _near_moments(obs, src, ii, jj, a2[ii, jj])
         static[:, ii, jj] = m_inv
         flat = ii * n_s + jj
-        near_fix = (m_r - (r[flat] @ w_s).T) * scale[flat]
+        near_fix = (m_r - (r[:, flat].T @ w_s).T) * scale[flat]
         near = flat
         if symmetric:  # M(j, i) is M(i, j) with u and v swapped
             off = ii != jj
             static[:, jj[off], ii[off]] = m_inv[[0, 2, 1, 3]][:, off]
             flat_t = jj[off] * n_s + ii[off]
-            fix_t = (m_r[[0, 2, 1, 3]][:, off] - (r[flat_t] @ w_s).T) * scale[flat_t]
+            fix_t = (m_r[[0, 2, 1, 3]][:, off] - (r[:, flat_t].T @ w_s).T) * scale[flat_t]
             near = np.concatenate([flat, flat_t])
             near_fix = np.concatenate([near_fix, fix_t], axis=1)
     static *= len_prod / (4 * math.pi)

@@ -169,6 +169,7 @@ class WireModel:
         self._basis(max_unknowns)
         self._check_limits()
         self._gather_idx: list[np.ndarray] | None = None
+        self._loss_pairs: tuple[np.ndarray, np.ndarray] | None = None
         self._free: PairIntegrals | None = None
         self._image: PairIntegrals | None = None
         self._image_segments: SegmentSet | None = None
@@ -288,6 +289,7 @@ class WireModel:
                                                       reach)
                 free.static[:, ii, jj] += mom
             free.symmetrise()
+            free.prepare(seg, seg)
             self._free = free
             if self.ground_z is not None:
                 self._image_segments = seg.mirrored(self.ground_z)
@@ -295,6 +297,7 @@ class WireModel:
                 if self.exact_kernel:
                     self._ground_chain_correction(image, reach)
                 image.symmetrise()
+                image.prepare(seg, self._image_segments)
                 self._image = image
         return self._free, self._image
 
@@ -337,36 +340,27 @@ class WireModel:
                                "frequency", field="frequency", value=f_hz)
 
     # -- matrix -----------------------------------------------------------------
-    def _assemble(self, m: np.ndarray, seg_src: SegmentSet, omega: float) -> np.ndarray:
-        """Basis-to-basis matrix (unknowns x unknowns) from the segment moments m (4, S, S).
-
-        Each basis is a rising half on one segment and a falling half on the next;
-        the vector-potential part weights the halves' overlap by t_i . t_j, the
-        scalar-potential part their charge densities (+1/l rising, -1/l falling).
-        """
-        m00, m01, m10, m11 = m
-        seg = self.segments
-        n = seg.count
-        tt = seg.direction @ seg_src.direction.T
-        jwmu = 1j * omega * MU0
-        scal = m00 * ((1.0 / (1j * omega * EPS0))
-                      / (seg.length[:, None] * seg_src.length[None, :]))
+    def _assemble(self, v: np.ndarray, s: np.ndarray, omega: float) -> np.ndarray:
+        """Basis-to-basis matrix (unknowns x unknowns, ohm) from the pair terms of
+        `PairIntegrals.fill`: each basis is a rising half on one segment and a falling
+        half on the next; the scalar-potential part carries their charge densities
+        (+1/l rising, -1/l falling), hence the signs."""
+        n = self.n_seg
         if self._gather_idx is None:
             r, f = self._rs, self._fs  # segment index of each basis' halves (n = none)
             self._gather_idx = [(rows[:, None] * (n + 1) + cols[None, :])
                                 for rows, cols in ((r, r), (r, f), (f, r), (f, f))]
+        jwmu = 1j * omega * MU0
+        sc = s * (1.0 / (1j * omega * EPS0))
         h = np.zeros((n + 1, n + 1), dtype=complex)
         body = h[:n, :n]
         out = None
-        for idx, mom, sign in zip(self._gather_idx, (m11, m10 - m11, m01 - m11,
-                                                     m00 - m10 - m01 + m11),
-                                  (1.0, -1.0, -1.0, 1.0)):
-            np.multiply(tt, mom, out=body)
-            body *= jwmu
+        for c, (idx, sign) in enumerate(zip(self._gather_idx, (1.0, -1.0, -1.0, 1.0))):
+            np.multiply(v[c], jwmu, out=body)
             if sign > 0:
-                body += scal
+                body += sc
             else:
-                body -= scal
+                body -= sc
             part = np.take(h, idx)
             out = part if out is None else out.__iadd__(part)
         return out
@@ -382,24 +376,45 @@ class WireModel:
         zs[self.lossless] = 0.0
         return zs
 
-    def _loss_matrix(self, f_hz: float) -> np.ndarray | None:
-        """Z_s-weighted overlap of the basis functions (ohm): rising-rising and
-        falling-falling l/3, rising-falling on one segment l/6."""
+    def _loss_terms(self, f_hz: float) -> tuple[np.ndarray, np.ndarray] | None:
+        """The Z_s-weighted overlap of the basis functions (ohm), which is tridiagonal in
+        the basis order: (diagonal (unknowns,), couplings (pairs,)) for the pairs
+        `self._loss_pairs`. Rising-rising and falling-falling halves l/3, a rising and a
+        falling half on one segment l/6."""
         if self.resistivity is None:
             return None
         zl = np.append(self.internal_impedance(f_hz) * self.segments.length, 0.0)
-        r, f = self._rs, self._fs
-        out = np.diag(zl[r] / 3 + zl[f] / 3)
-        # basis m's falling half shares a segment with basis n's rising half
-        share = f[:, None] == r[None, :]
-        share &= f[:, None] < self.n_seg
-        out = out + np.where(share, zl[f][:, None] / 6, 0.0)
-        out = out + np.where(share.T, zl[r][:, None] / 6, 0.0)
-        return out
+        if self._loss_pairs is None:
+            # basis m's falling half and basis n's rising half on the same segment
+            seg_of_rise = np.full(self.n_seg + 1, -1)
+            seg_of_rise[self._rs] = np.arange(self.unknowns)
+            n = seg_of_rise[self._fs]
+            ok = (self._fs < self.n_seg) & (n >= 0)
+            self._loss_pairs = (np.nonzero(ok)[0], n[ok])
+        pm, _ = self._loss_pairs
+        return zl[self._rs] / 3 + zl[self._fs] / 3, zl[self._fs[pm]] / 6
+
+    def loss_matrix(self, f_hz: float) -> np.ndarray | None:
+        """The conductor-loss part of the impedance matrix (ohm), dense; None if lossless."""
+        terms = self._loss_terms(f_hz)
+        if terms is None:
+            return None
+        z = np.zeros((self.unknowns, self.unknowns), dtype=complex)
+        self._add_loss(z, terms)
+        return z
+
+    def _add_loss(self, z: np.ndarray, terms: tuple[np.ndarray, np.ndarray]) -> None:
+        diag, off = terms
+        pm, pn = self._loss_pairs  # type: ignore[misc]
+        idx = np.arange(self.unknowns)
+        z[idx, idx] += diag
+        z[pm, pn] += off
+        z[pn, pm] += off
 
     def matrix(self, f_hz: float, phases: tuple[np.ndarray, np.ndarray | None] | None = None
-               ) -> tuple[np.ndarray, np.ndarray | None]:
-        """The impedance matrix (unknowns x unknowns, ohm) and its loss part, at f_hz.
+               ) -> tuple[np.ndarray, tuple[np.ndarray, np.ndarray] | None]:
+        """The impedance matrix (unknowns x unknowns, ohm) at f_hz, loss included, and the
+        loss terms (see `_loss_terms`; None for a perfect conductor).
 
         `phases`: exp(-jkR) at the quadrature points (free, image), when the caller
         already has them (a sweep advances them from one frequency to the next).
@@ -409,13 +424,13 @@ class WireModel:
         omega = 2 * math.pi * f_hz
         k = omega / C0
         ph_free, ph_image = phases if phases is not None else (None, None)
-        z = self._assemble(free.total(k, ph_free), self.segments, omega)
-        if image is not None and self._image_segments is not None:
-            z -= self._assemble(image.total(k, ph_image), self._image_segments, omega)
-        z_loss = self._loss_matrix(f_hz)
-        if z_loss is not None:
-            z += z_loss
-        return z, z_loss
+        z = self._assemble(*free.fill(k, ph_free), omega)
+        if image is not None:
+            z -= self._assemble(*image.fill(k, ph_image), omega)
+        terms = self._loss_terms(f_hz)
+        if terms is not None:
+            self._add_loss(z, terms)
+        return z, terms
 
     # -- solving ------------------------------------------------------------------
     def solve(self, f_hz: float) -> Solution:
@@ -427,12 +442,19 @@ class WireModel:
                ) -> Solution:
         from scipy.linalg import solve
 
-        z, z_loss = self.matrix(f_hz, phases)
+        z, loss = self.matrix(f_hz, phases)
         cur = solve(z, self.excitation.astype(complex), assume_a="sym", check_finite=False)
         i_in = complex(self.excitation @ cur)
         z_in = 1.0 / i_in
         p_in = 0.5 * i_in.real
-        p_loss = 0.0 if z_loss is None else 0.5 * float(np.real(np.conj(cur) @ (z_loss @ cur)))
+        p_loss = 0.0
+        if loss is not None:
+            diag, off = loss
+            pm, pn = self._loss_pairs  # type: ignore[misc]
+            cross = np.conj(cur[pm]) * cur[pn]
+            # Re(I^H Z I) = I^H Re(Z) I: Re(Z) is real symmetric, so I^H Re(Z) I is real
+            p_loss = 0.5 * float(np.sum(diag.real * np.abs(cur) ** 2)
+                                 + 2 * np.sum(off.real * cross.real))
         p_rad = p_in - p_loss
         eff = p_rad / p_in if p_in > 0 else float("nan")
         return Solution(f_hz, z_in, cur, p_in, p_loss, p_rad, eff)

@@ -127,3 +127,18 @@ def test_stainless_loses_more_than_copper(em_wires):
         losses.append(sol.p_loss_w / sol.p_in_w)
     assert losses[1] / losses[0] == pytest.approx(math.sqrt(72 / 1.72), rel=0.05)
     assert np.all(np.array(losses) < 0.2)
+
+
+def test_loss_power_is_the_hermitian_form_of_the_loss_matrix(em_wires):
+    # source: definition of dissipated power, P = 1/2 Re(I^H Z_loss I), on a bent wire whose
+    # currents change phase along it (a long, lossy, off-resonance loop)
+    nodes = em_wires.circle_nodes(400.0, 40)
+    model = wire_model(nodes, 0.5, closed=True, source_segments=[0], resistivity_ohm_m=72e-8,
+                       lossless_segments=[0])
+    sol = model.solve(300e6)
+    zl = model.loss_matrix(300e6)
+    cur = sol.currents
+    assert np.ptp(np.angle(cur)) > 0.5  # the phase does change along the loop
+    assert sol.p_loss_w == pytest.approx(0.5 * float(np.real(np.conj(cur) @ zl @ cur)),
+                                         rel=1e-12)
+    assert np.allclose(zl, zl.T)
