@@ -27,8 +27,7 @@ from typing import TYPE_CHECKING, Sequence
 import numpy as np
 
 from ..errors import FabplanError, Finding
-from .kernel import (PairIntegrals, SegmentSet, exact_kernel_correction, pair_integrals,
-                     segment_distance)
+from .kernel import PairIntegrals, SegmentSet, exact_kernel_correction, pair_integrals
 from .loss import MU0, internal_impedance
 
 if TYPE_CHECKING:  # pragma: no cover
@@ -605,4 +604,6 @@ def path_model(path: "BendPath", radius_mm: float, *, f_max_hz: float,
             "the thin-wire model treats it with fewer, wire-radius-long segments and is less "
             "certain there"))
     model.mesh = mesh  # type: ignore[attr-defined]
+    log.debug("meshed %.1f mm of path into %d segments (%d unknowns), longest %.2f mm",
+              path.centreline_length(), len(mesh.lengths), model.unknowns, mesh.lengths.max())
     return model

@@ -9,7 +9,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from fabplan.em.loss import MU0, internal_impedance, skin_depth, surface_resistance
+from fabplan.em.loss import internal_impedance, skin_depth, surface_resistance
 from fabplan.em.solver import C0, wire_model
 
 RHO_CU = 1.72e-8  # ohm m, annealed copper (trade notes: CDA data, 1.71-1.72 uOhm cm)
