@@ -9,6 +9,12 @@ overlap check. Nothing here decides an engineering length: former radii,
 centres, spacing and mark positions come from the Plan as they are; the
 layout only places parts and chooses where pins, labels and cuts go.
 
+Plate outline: the convex outline of everything on the plate grown by the
+margin (or the bounding rectangle when that costs under 15 % more area), with
+rounded corners. A plate larger than the bed is cut into sections with
+alignment holes and splice plates, or (split = "end-plates") reduced to two end
+plates and a spacing bar drilled at the formers' centre distance.
+
 Kerf: cut outlines grow by half the kerf and holes shrink by half of it, so
 the finished parts come out at the drawn size.
 """
