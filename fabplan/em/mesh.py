@@ -6,7 +6,8 @@ the arc's end nodes stay on the tangent points so the straights still meet
 them), with at least `min_seg_per_180` segments per 180 degrees and never fewer
 than two; no segment is longer than `h_max_mm`; neighbouring segments stay
 within 2:1 (straights are graded, arcs refined); the feed gap is one segment of
-its real width closing the path from end B to end A.
+its real width closing the path from end B to end A, its neighbours about 3/4 of
+its width (two wire radii at least) whatever the top frequency, growing from there.
 
 Units: millimetres.
 """
@@ -46,8 +47,9 @@ def arc_polygon(arc: Arc3, n: int) -> np.ndarray:
     """
     from scipy.optimize import brentq
 
-    if n < 2:
-        raise FabplanError("an arc needs at least two segments", field="segments", value=n)
+    if n < 2 or arc.angle / n > math.pi / 2 + 1e-12:
+        raise FabplanError("an arc needs at least two segments and at most 90 degrees per "
+                           "segment", field="segments", value=n)
     phi = np.linspace(0.0, arc.angle, n + 1)
     centre = np.asarray(arc.centre)
     u, v, ax = np.asarray(arc.u), np.asarray(arc.v), np.asarray(arc.axis)
@@ -66,6 +68,8 @@ def arc_polygon(arc: Arc3, n: int) -> np.ndarray:
     lo, hi = arc.radius, arc.radius * 2.0
     if excess(lo) >= 0:
         return nodes(lo)
+    while excess(hi) < 0:  # a steep helix needs more push
+        hi *= 2.0
     r = brentq(excess, lo, hi, xtol=1e-13 * arc.radius, rtol=1e-14)
     return nodes(r)
 
@@ -100,12 +104,13 @@ class _Piece:
 
 
 def mesh_path(path: BendPath, h_max_mm: float, min_seg_per_180: int = 8,
-              min_len_mm: float = 0.0) -> Mesh:
+              min_len_mm: float = 0.0, gap_neighbour: float = 0.75) -> Mesh:
     """Mesh `path` (which must have a feed gap) with segments <= `h_max_mm` (mm).
 
     `min_len_mm`: the shortest segment the solver accepts (about a wire radius). A bend
     too tight for `min_seg_per_180` segments of that length gets fewer (at least two;
     counted in `coarse_bends`); a straight shorter than it is merged into a neighbour.
+    `gap_neighbour`: length of the segments beside the gap, as a fraction of the gap.
     """
     if path.gap_mm is None:
         raise FabplanError("the electrical model needs a feed gap on the path", field="gap",
@@ -131,7 +136,11 @@ def mesh_path(path: BendPath, h_max_mm: float, min_seg_per_180: int = 8,
     if gap_len <= 0:
         raise FabplanError("the ends meet: the feed gap has no width", field="gap",
                            value=path.gap_mm)
-    gap = _Piece(None, gap_len, 1, gap_len, gap_len, np.array([gap_len]))
+    # the gap's neighbours: 3/4 of the gap (and twice min_len), whatever the top
+    # frequency, so that refining the mesh far away leaves the feed region alone; the
+    # solution converges only slowly with the size of these segments
+    near_gap = max(2 * min_len_mm, gap_neighbour * gap_len)
+    gap = _Piece(None, gap_len, 1, near_gap / 2, near_gap / 2, np.array([gap_len]))
     ring = pieces + [gap]
     m = len(ring)
     for p in pieces:
