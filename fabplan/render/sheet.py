@@ -167,6 +167,17 @@ def _title(ctx: _Ctx) -> list:
     if d.notes:
         rows.insert(1, ["Notes", d.notes, "", ""])
     out = [ctx.p(f"Build sheet: {d.project}", ctx.h1)]
+    errors = sum(f.severity == "error" for f in plan.findings)
+    if errors:
+        from reportlab.lib.styles import ParagraphStyle
+
+        warn = ParagraphStyle("warn", parent=ctx.body, fontSize=10, leading=13,
+                              textColor=ctx.colors.Color(0.7, 0.05, 0.05),
+                              borderColor=ctx.colors.Color(0.7, 0.05, 0.05), borderWidth=1,
+                              borderPadding=4, spaceBefore=4, spaceAfter=8)
+        out.append(ctx.p(f"NOT BUILDABLE AS IT STANDS: {errors} error finding(s). Read the "
+                         "Findings section and change the design before cutting any stock.",
+                         warn))
     out += ctx.table(["item", "value", "item", "value"], rows, [0.13, 0.42, 0.12, 0.33])
     tbl = out[-1]
     from reportlab.platypus import TableStyle

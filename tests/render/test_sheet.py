@@ -169,3 +169,18 @@ def test_mm_shop_gets_millimetres_first(write_design):
         d = abs(m.from_centre_mm)
         side = "-" if d < 1e-9 else ("A" if m.from_centre_mm < 0 else "B")
         assert f"{m.label} {side} {format_mm(d)} {format_inches(d, den)}" in flat
+
+
+def test_error_findings_get_a_banner_on_page_one(write_design):
+    # 6 mm centre to centre on 6.35 mm tube: the two sides touch (an error finding)
+    text = EXAMPLE.read_text().replace('centre_spacing = "1 1/4 in"', 'centre_spacing = "6 mm"')
+    p = make_plan(load_design(write_design(text)))
+    errors = sum(f.severity == "error" for f in p.findings)
+    assert errors
+    first = re.sub(r"\s+", " ", _pages(sheet_pdf(p, "a4"))[0])
+    assert f"NOT BUILDABLE AS IT STANDS: {errors} error finding(s)" in first
+
+
+def test_no_banner_when_buildable(example_plan, a4):
+    assert not example_plan.has_errors
+    assert "NOT BUILDABLE" not in _flat(a4)
