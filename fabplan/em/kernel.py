@@ -325,8 +325,6 @@ def exact_kernel_correction(length: np.ndarray, radius: np.ndarray, closed: bool
 
     Returns (i, j, moments (4, P)) with moments already multiplied by l_i l_j.
     """
-    from scipy.special import ellipkm1
-
     n = len(length)
     cum = np.concatenate([[0.0], np.cumsum(length)])
     total = cum[-1]
@@ -355,9 +353,27 @@ def exact_kernel_correction(length: np.ndarray, radius: np.ndarray, closed: bool
     ii_a = np.concatenate([p[0] for p in parts])
     jj_a = np.concatenate([p[1] for p in parts])
     c = np.concatenate([p[2] for p in parts]).astype(float)
-    li = length[ii_a]
-    lj = length[jj_a]
+    touching = np.concatenate([np.full(len(p[0]), abs(d) <= 1) for p, d in
+                               zip(parts, sorted(range(-reach, reach + 1), key=abs))])
+    mom = np.empty((4, len(c)))
     a2 = 0.5 * (radius[ii_a] ** 2 + radius[jj_a] ** 2)
+    a_min = float(np.sqrt(a2.min()))
+    # the kernels differ by a log singularity at y = 0 for a segment and its neighbours
+    # (graded towards it); further along the chain the difference is smooth
+    levels = max(2, math.ceil(math.log(1e-3 * a_min / float(length.max())) / math.log(_GRADE)))
+    for sel, lev in ((touching, levels), (~touching, 0)):
+        if np.any(sel):
+            mom[:, sel] = _correction_moments(length[ii_a[sel]], length[jj_a[sel]], c[sel],
+                                              a2[sel], lev)
+    return ii_a, jj_a, mom
+
+
+def _correction_moments(li: np.ndarray, lj: np.ndarray, c: np.ndarray, a2: np.ndarray,
+                        levels: int) -> np.ndarray:
+    """(K_exact - K_reduced)/(4 pi) moments (x l_i l_j) of collinear pairs whose source
+    starts `c` along the line after the observer's start (see exact_kernel_correction)."""
+    from scipy.special import ellipkm1
+
     # y = s - s' runs over [-(c + lj), li - c]; breakpoints where W changes form, and 0
     y_lo = -(c + lj)
     y_hi = li - c
@@ -365,8 +381,6 @@ def exact_kernel_correction(length: np.ndarray, radius: np.ndarray, closed: bool
     k2 = np.clip(-c, y_lo, y_hi)
     zero = np.clip(np.zeros_like(c), y_lo, y_hi)
     bp = np.sort(np.stack([y_lo, k1, k2, zero, y_hi], axis=1), axis=1)
-    a_min = float(np.sqrt(a2.min()))
-    levels = max(2, math.ceil(math.log(1e-3 * a_min / float(length.max())) / math.log(_GRADE)))
     tpl = _graded_template(levels)
     edges = bp[:, :-1, None] + (bp[:, 1:, None] - bp[:, :-1, None]) * tpl[None, None, :]
     lo = edges[:, :, :-1].reshape(len(c), -1)
@@ -393,4 +407,4 @@ def exact_kernel_correction(length: np.ndarray, radius: np.ndarray, closed: bool
     w_hi, w_lo = prim(u_hi), prim(u_lo)
     mom = np.stack([np.sum(wy * dk * (h - l_) / lj[:, None], axis=1)
                     for h, l_ in zip(w_hi, w_lo)])
-    return ii_a, jj_a, mom * (li * lj / (4 * math.pi))
+    return mom * (li * lj / (4 * math.pi))

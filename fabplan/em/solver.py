@@ -167,6 +167,7 @@ class WireModel:
         self.findings: list[Finding] = []
         self._basis(max_unknowns)
         self._check_limits()
+        self.mesh = None  # the Mesh, when built by path_model
         self._gather_idx: list[np.ndarray] | None = None
         self._loss_pairs: tuple[np.ndarray, np.ndarray] | None = None
         self._free: PairIntegrals | None = None
@@ -603,7 +604,7 @@ def path_model(path: "BendPath", radius_mm: float, *, f_max_hz: float,
             f"a bend of {r:.3g} mm centreline radius is under {TIGHT_BEND_RADII:g} wire radii: "
             "the thin-wire model treats it with fewer, wire-radius-long segments and is less "
             "certain there"))
-    model.mesh = mesh  # type: ignore[attr-defined]
+    model.mesh = mesh
     log.debug("meshed %.1f mm of path into %d segments (%d unknowns), longest %.2f mm",
               path.centreline_length(), len(mesh.lengths), model.unknowns, mesh.lengths.max())
     return model
