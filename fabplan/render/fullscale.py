@@ -630,34 +630,56 @@ def _tiled(c, plan, layout: Layout, paper: str, overlap: float) -> None:
     items = [Item(it.kind, it.data, it.width, it.dash, it.grey, it.size, it.angle, it.anchor,
                   it.bold) for it in layout.items]
     _shift(items, ox, oy)
+
+    def box(r: int, col: int) -> tuple[float, float, float, float]:
+        x0, y0 = col * sx, (rows - 1 - r) * sy
+        return (x0, y0, x0 + cw, y0 + ch)
+
+    grid = [(r, col) for r in range(rows) for col in range(cols)]
+    printed = [t for t in grid if any(_touches(it, box(*t)) for it in items)]
+    if not printed or not _connected(printed):
+        printed = grid
     crosses = _crosses(layout, cols, rows, cw, ch, overlap)
     for n, x, y in crosses:
         items += [Item("line", ((x - CROSS_MM / 2, y), (x + CROSS_MM / 2, y)), width=0.4),
                   Item("line", ((x, y - CROSS_MM / 2), (x, y + CROSS_MM / 2)), width=0.4),
                   Item("text", (x + 1.2, y + 1.2, str(n)), size=8, bold=True)]
-    total = cols * rows + 1
+    total = len(printed) + 1
     c.setPageSize((pw * k, ph * k))
     _assembly_map(c, plan, layout, items, pw, ph, cols, rows, cw, ch, overlap, gw, gh, total,
-                  paper)
-    page = 1
-    for r in range(rows):  # row A at the top
-        for col in range(cols):
-            page += 1
-            x0 = col * sx
-            y0 = (rows - 1 - r) * sy
-            c.setPageSize((pw * k, ph * k))
-            dx, dy = MARGIN_MM * k - x0 * k, (MARGIN_MM + FOOTER_MM) * k - y0 * k
-            c.saveState()
-            p = c.beginPath()
-            p.rect(MARGIN_MM * k, (MARGIN_MM + FOOTER_MM) * k, cw * k, ch * k)
-            c.clipPath(p, stroke=0, fill=0)
-            draw_items(c, items, dx, dy, (x0, y0, x0 + cw, y0 + ch))
-            c.restoreState()
-            _tile_frame(c, col, r, cols, rows, cw, ch, overlap)
-            name = f"{_row_name(r)}{col + 1}"
-            _footer(c, pw * k, f"tile {name}: row {_row_name(r)} of {rows}, column {col + 1} of "
-                               f"{cols}   page {page} of {total}")
-            c.showPage()
+                  paper, set(printed))
+    for page, (r, col) in enumerate(printed, 2):  # row A at the top
+        x0, y0 = box(r, col)[:2]
+        c.setPageSize((pw * k, ph * k))
+        dx, dy = MARGIN_MM * k - x0 * k, (MARGIN_MM + FOOTER_MM) * k - y0 * k
+        c.saveState()
+        p = c.beginPath()
+        p.rect(MARGIN_MM * k, (MARGIN_MM + FOOTER_MM) * k, cw * k, ch * k)
+        c.clipPath(p, stroke=0, fill=0)
+        draw_items(c, items, dx, dy, box(r, col))
+        c.restoreState()
+        _tile_frame(c, col, r, cols, rows, cw, ch, overlap)
+        name = f"{_row_name(r)}{col + 1}"
+        _footer(c, pw * k, f"tile {name}: row {_row_name(r)} of {rows}, column {col + 1} of "
+                           f"{cols}   page {page} of {total}")
+        c.showPage()
+
+
+def _connected(tiles: list[tuple[int, int]]) -> bool:
+    """Whether the tiles join up through shared alignment crosses (edge or
+    corner neighbours), so that they can be laid out from any one of them."""
+    left = set(tiles)
+    todo = [tiles[0]]
+    left.discard(tiles[0])
+    while todo:
+        r, c = todo.pop()
+        for dr in (-1, 0, 1):
+            for dc in (-1, 0, 1):
+                t = (r + dr, c + dc)
+                if t in left:
+                    left.discard(t)
+                    todo.append(t)
+    return not left
 
 
 def _tile_frame(c, col, r, cols, rows, cw, ch, overlap) -> None:
@@ -682,7 +704,7 @@ def _tile_frame(c, col, r, cols, rows, cw, ch, overlap) -> None:
 
 
 def _assembly_map(c, plan, layout, items, pw, ph, cols, rows, cw, ch, overlap, gw, gh,
-                  total, paper) -> None:
+                  total, paper, printed) -> None:
     k = PT_PER_MM
     top = (ph - MARGIN_MM) * k
     left = MARGIN_MM * k
@@ -692,8 +714,11 @@ def _assembly_map(c, plan, layout, items, pw, ph, cols, rows, cw, ch, overlap, g
     name = paper.upper() if paper == "a4" else paper.title()
     turn = "landscape" if pw > ph else "portrait"
     lines = [
-        f"Full-scale template: {cols * rows} tile(s), {rows} row(s) x {cols} column(s), on "
-        f"{name} ({turn}); this map is page 1 of {total}.",
+        f"Full-scale template: {len(printed)} tile(s) to print, in a grid of {rows} row(s) x "
+        f"{cols} column(s) on {name} ({turn}).",
+        f"This map is page 1 of {total}."
+        + (f" {cols * rows - len(printed)} blank tile(s) of the grid are left out (grey)."
+           if len(printed) < cols * rows else ""),
         "1. Print every page at actual size (100 %), no 'fit to page'. Measure the 100 mm and",
         "    4 in bars at the foot of each page with a rule before you use any page.",
         f"2. Tiles overlap by {format_mm(overlap, 0)}. Lay each tile over its left and lower "
@@ -725,11 +750,20 @@ def _assembly_map(c, plan, layout, items, pw, ph, cols, rows, cw, ch, overlap, g
         for col in range(cols):
             x0 = col * sx
             y0 = (rows - 1 - r) * sy
+            blank = (r, col) not in printed
+            if blank:
+                c.setStrokeGray(0.7)
+                c.setFillGray(0.7)
+                c.setDash([3, 2])
             c.rect(mx + x0 * k * scale, my + y0 * k * scale, cw * k * scale, ch * k * scale,
                    stroke=1, fill=0)
             c.setFont("Helvetica-Bold", 10)
             c.drawString(mx + (x0 + 3) * k * scale + 2, my + (y0 + ch - 3) * k * scale - 10,
-                         f"{_row_name(r)}{col + 1}")
+                         f"{_row_name(r)}{col + 1}" + (" (blank)" if blank else ""))
+            if blank:
+                c.setDash([])
+                c.setStrokeColorRGB(0.1, 0.3, 0.8)
+                c.setFillColorRGB(0.1, 0.3, 0.8)
     c.setStrokeColorRGB(0, 0, 0)
     c.setFillColorRGB(0, 0, 0)
     c.setFont("Helvetica", 7.5)
