@@ -397,8 +397,11 @@ def _drawing(ctx: _Ctx, e) -> list:
     grey = colors.Color(0.45, 0.45, 0.45)
     for prim in geo.centreline:
         pts = prim_points(prim, 36)
-        d.add(PolyLine([c for p in pts for c in P(*p)], strokeWidth=0.4,
-                       strokeColor=grey, strokeDashArray=[5, 2, 1, 2]))
+        if geo.planar:
+            d.add(PolyLine([c for p in pts for c in P(*p)], strokeWidth=0.4,
+                           strokeColor=grey, strokeDashArray=[5, 2, 1, 2]))
+        else:
+            d.add(PolyLine([c for p in pts for c in P(*p)], strokeWidth=0.7))
     for prim in geo.outline:
         pts = prim_points(prim, 36)
         d.add(PolyLine([c for p in pts for c in P(*p)], strokeWidth=0.8))
@@ -472,8 +475,12 @@ def _drawing(ctx: _Ctx, e) -> list:
                  if ctx.paper == "a4" else
                  f"Scale {scale_txt} when printed at 100 % on {ctx.paper.title()}",
                  fontSize=7, textAnchor="end"))
-    title = "Drawing to scale" if geo.planar else "Drawing to scale (top view, projected)"
-    return [ctx.p(title, ctx.h3),
+    if not geo.planar:
+        return [ctx.p("Drawing to scale (projected)", ctx.h3),
+                ctx.p("The centreline seen square to the drawing's x-y plane. The element is "
+                      "not flat, so lengths along the stock are not true here: mark from the "
+                      "marks table or the full-scale template's marking strip.", ctx.small), d]
+    return [ctx.p("Drawing to scale", ctx.h3),
             ctx.p("Outline solid, centreline dash-dot; red ticks are the marks (ids as in the "
                   "marks table)" + ("; blue dashed circles are the jig's formers."
                                     if f is not None and f.formers else "."), ctx.small), d]
