@@ -527,6 +527,11 @@ def wire_model(nodes_mm: np.ndarray, radius_mm: float | np.ndarray, *, closed: b
     conductor; tube_wall_mm: the wall of a tube (mm); lossless_segments: segments
     without conductor loss (the gap itself); ground_z_mm: height of a perfect
     ground plane (mm), None for free space.
+
+    An open end has no end cap (the current is zero at its last node). For thick
+    wires (a/lambda ~ 0.003) the resonance of an open-ended wire still moves by about
+    0.2 % each time the end segments are halved; closed paths (every `path_model`)
+    have no open ends.
     """
     nodes = np.asarray(nodes_mm, dtype=float)
     if nodes.ndim != 2 or nodes.shape[1] != 3 or len(nodes) < 2:
