@@ -28,7 +28,7 @@ def _directions(theta: np.ndarray, phi: np.ndarray) -> np.ndarray:
     return np.stack([st * np.cos(phi), st * np.sin(phi), np.cos(theta)], axis=-1)
 
 
-def _sources(model: WireModel, solution: Solution
+def _sources(solution: Solution, model: WireModel
              ) -> tuple[np.ndarray, np.ndarray, np.ndarray, np.ndarray, np.ndarray]:
     """Segments (start, direction, length) and currents at their ends, with the
     images over a ground plane (reversed horizontal current)."""
@@ -46,10 +46,10 @@ def _sources(model: WireModel, solution: Solution
     return start, dirn, length, i0, i1
 
 
-def radiation_vector(model: WireModel, solution: Solution, directions: np.ndarray) -> np.ndarray:
+def radiation_vector(solution: Solution, model: WireModel, directions: np.ndarray) -> np.ndarray:
     """N (..., 3) in A m for unit `directions` (..., 3)."""
     k = 2 * math.pi * solution.f_hz / C0
-    start, dirn, length, i0, i1 = _sources(model, solution)
+    start, dirn, length, i0, i1 = _sources(solution, model)
     q = max(4, math.ceil(k * float(length.max()) * 2) + 2)
     x, w = np.polynomial.legendre.leggauss(q)
     u = (x + 1) / 2
@@ -70,13 +70,13 @@ def radiation_vector(model: WireModel, solution: Solution, directions: np.ndarra
     return out.reshape(*shape, 3)
 
 
-def intensity(model: WireModel, solution: Solution, theta_rad: np.ndarray,
+def intensity(solution: Solution, model: WireModel, theta_rad: np.ndarray,
               phi_rad: np.ndarray) -> np.ndarray:
     """Radiation intensity U (W/sr) at 1 V, for broadcastable theta and phi (rad).
     Zero below a ground plane."""
     th, ph = np.broadcast_arrays(np.asarray(theta_rad, float), np.asarray(phi_rad, float))
     r = _directions(th, ph)
-    n = radiation_vector(model, solution, r)
+    n = radiation_vector(solution, model, r)
     nt = n - r * np.einsum("...k,...k", n, r)[..., None]
     k = 2 * math.pi * solution.f_hz / C0
     u = ETA0 * k * k / (32 * math.pi ** 2) * np.einsum("...k,...k", nt, nt.conj()).real
@@ -88,7 +88,7 @@ def intensity(model: WireModel, solution: Solution, theta_rad: np.ndarray,
 def pattern(solution: Solution, model: WireModel, theta_rad: np.ndarray,
             phi_rad: np.ndarray) -> np.ndarray:
     """Gain (dBi, loss included) at each direction; -inf in a null or below ground."""
-    u = intensity(model, solution, theta_rad, phi_rad)
+    u = intensity(solution, model, theta_rad, phi_rad)
     with np.errstate(divide="ignore"):
         return 10 * np.log10(4 * math.pi * u / solution.p_in_w)
 
@@ -96,12 +96,12 @@ def pattern(solution: Solution, model: WireModel, theta_rad: np.ndarray,
 def directivity_pattern(solution: Solution, model: WireModel, theta_rad: np.ndarray,
                         phi_rad: np.ndarray) -> np.ndarray:
     """Directivity (dBi, against the radiated power from the far-field integral)."""
-    u = intensity(model, solution, theta_rad, phi_rad)
+    u = intensity(solution, model, theta_rad, phi_rad)
     with np.errstate(divide="ignore"):
-        return 10 * np.log10(4 * math.pi * u / radiated_power(model, solution))
+        return 10 * np.log10(4 * math.pi * u / radiated_power(solution, model))
 
 
-def radiated_power(model: WireModel, solution: Solution, n_theta: int = 48,
+def radiated_power(solution: Solution, model: WireModel, n_theta: int = 48,
                    n_phi: int = 64) -> float:
     """Radiated power (W at 1 V) by integrating U over the sphere (or the upper
     half-space over ground): Gauss-Legendre in cos(theta), trapezoid in phi.
@@ -115,13 +115,13 @@ def radiated_power(model: WireModel, solution: Solution, n_theta: int = 48,
         wt = w
     theta = np.arccos(mu)
     phi = np.arange(n_phi) * (2 * math.pi / n_phi)
-    u = intensity(model, solution, theta[:, None], phi[None, :])
+    u = intensity(solution, model, theta[:, None], phi[None, :])
     return float(np.sum(u * wt[:, None]) * (2 * math.pi / n_phi))
 
 
-def radiation_efficiency(model: WireModel, solution: Solution) -> float:
+def radiation_efficiency(solution: Solution, model: WireModel) -> float:
     """Radiated power (far-field integral) over input power."""
-    return radiated_power(model, solution) / solution.p_in_w
+    return radiated_power(solution, model) / solution.p_in_w
 
 
 def principal_planes(solution: Solution, model: WireModel, step_deg: float = 2.0
