@@ -3,7 +3,6 @@ engineering here. Bad input prints one line and exits with status 2."""
 
 from __future__ import annotations
 
-import functools
 import importlib
 import sys
 from importlib import resources
@@ -12,47 +11,10 @@ from pathlib import Path
 import click
 
 from . import __version__
+from .commands.base import EXIT_BAD_INPUT, EXIT_FINDINGS, design_argument, guarded, load_plan
 from .errors import FabplanError
 
-EXIT_FINDINGS = 1
-EXIT_BAD_INPUT = 2
-
-
-def _fail(message: str) -> None:
-    click.echo(f"fabplan: error: {message}", err=True)
-    sys.exit(EXIT_BAD_INPUT)
-
-
-def guarded(func):
-    """Turn FabplanError (and unreadable files) into one line and exit 2."""
-
-    @functools.wraps(func)
-    def wrapper(*args, **kwargs):
-        ctx = click.get_current_context()
-        debug = ctx.find_root().params.get("debug", False)
-        try:
-            return func(*args, **kwargs)
-        except FabplanError as exc:
-            if debug:
-                raise
-            _fail(str(exc))
-        except OSError as exc:
-            if debug:
-                raise
-            _fail(f"{getattr(exc, 'filename', '') or ''}: {exc.strerror or exc}")
-
-    return wrapper
-
-
-design_argument = click.argument("design", type=click.Path(dir_okay=False, path_type=Path))
-
-
-def load_plan(design_path: Path):
-    from .design import load_design
-    from .plan import make_plan
-
-    return make_plan(load_design(design_path))
-
+__all__ = ["main", "EXIT_BAD_INPUT", "EXIT_FINDINGS", "design_argument", "guarded", "load_plan"]
 
 @click.group(context_settings={"help_option_names": ["-h", "--help"]})
 @click.version_option(__version__, prog_name="fabplan")

@@ -11,7 +11,7 @@ from pathlib import Path
 
 import click
 
-from ..cli import design_argument, guarded
+from .base import design_argument, guarded
 
 __all__ = ["COMMANDS", "sweep", "tune"]
 

@@ -6,7 +6,7 @@ from pathlib import Path
 
 import click
 
-from fabplan.cli import design_argument, guarded, load_plan
+from .base import design_argument, guarded, load_plan
 
 __all__ = ["COMMANDS", "estimate", "compare"]
 

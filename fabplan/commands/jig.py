@@ -12,7 +12,7 @@ from pathlib import Path
 
 import click
 
-from ..cli import EXIT_FINDINGS, design_argument, guarded, load_plan
+from .base import EXIT_FINDINGS, design_argument, guarded, load_plan
 from ..render.jigfiles import FORMATS, parse_formats, write_jig, write_jig_files
 
 __all__ = ["COMMANDS", "FORMATS", "write_jig_files", "jig"]
