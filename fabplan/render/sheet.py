@@ -117,7 +117,7 @@ class _Ctx:
                 return c
             # short figures stay plain text (quick to lay out); anything that
             # might not fit its column wraps as a paragraph
-            if a == "r" and "\n" not in c and stringWidth(c, "Helvetica", 8) <= w - 7:
+            if "\n" not in c and stringWidth(c, "Helvetica", 8) <= w - 7:
                 return c
             return Paragraph(_esc(c), self.cellr if a == "r" else self.cell)
 
@@ -133,7 +133,8 @@ class _Ctx:
             ("FONT", (0, 1), (-1, -1), "Helvetica", 8, 9.5),
             ("TOPPADDING", (0, 0), (-1, -1), 2), ("BOTTOMPADDING", (0, 0), (-1, -1), 2),
             ("LEFTPADDING", (0, 0), (-1, -1), 3), ("RIGHTPADDING", (0, 0), (-1, -1), 3),
-        ] + [("ALIGN", (i, 1), (i, -1), "RIGHT") for i, a in enumerate(align) if a == "r"]))
+        ] + [("ALIGN", (i, 1), (i, -1), "RIGHT") for i, a in enumerate(align) if a == "r"]
+            + [("VALIGN", (0, 1), (-1, -1), "TOP")]))
         out = []
         if caption:
             out.append(self.p(caption, self.caption))
