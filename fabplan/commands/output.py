@@ -15,7 +15,7 @@ from pathlib import Path
 
 import click
 
-from ..cli import EXIT_FINDINGS, design_argument, guarded, load_plan
+from .base import EXIT_FINDINGS, design_argument, guarded, load_plan
 from ..errors import FabplanError
 
 __all__ = ["COMMANDS", "sheet", "template", "build", "build_files"]

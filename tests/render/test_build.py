@@ -7,7 +7,6 @@ import json
 import pdfplumber
 import pytest
 
-import fabplan.cli  # noqa: F401 - the CLI first: it registers the command modules
 from fabplan.commands.output import BUILD_NAMES
 
 
