@@ -74,14 +74,13 @@ def _write_pdf(design: Path, output: Path, paper: str, force: bool, render) -> N
     _findings_exit(plan)
 
 
-paper_help = "Paper size."
 
 
 @click.command()
 @design_argument
 @click.option("-o", "--output", required=True, type=click.Path(path_type=Path),
               help="The PDF file to write.")
-@click.option("--paper", default="a4", show_default=True, metavar="a4|letter", help=paper_help)
+@click.option("--paper", default="a4", show_default=True, metavar="a4|letter", help="Paper size.")
 @click.option("--force", is_flag=True, help="Replace an existing file.")
 @guarded
 def sheet(design: Path, output: Path, paper: str, force: bool) -> None:

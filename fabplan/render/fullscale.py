@@ -213,7 +213,6 @@ class Layout:
     items: list
     width: float
     height: float
-    crosses: list  # (number, x, y), filled in by tiling
 
 
 def _strip(e, den: int) -> tuple[list, tuple]:
@@ -404,7 +403,7 @@ def build_layout(plan) -> Layout:
                     bold=True)
         items.append(head)
         y += 6 + GUTTER_MM
-    return Layout(items, width, y, [])
+    return Layout(items, width, y)
 
 
 # -- tiling --------------------------------------------------------------------
@@ -434,7 +433,7 @@ def tile_grid(width_mm: float, height_mm: float, paper: str,
     return best
 
 
-def _crosses(layout: Layout, cols: int, rows: int, cw: float, ch: float,
+def _crosses(cols: int, rows: int, cw: float, ch: float,
              overlap: float) -> list:
     """Numbered alignment crosses in the middle of each overlap band."""
     sx, sy = cw - overlap, ch - overlap
@@ -639,7 +638,7 @@ def _tiled(c, plan, layout: Layout, paper: str, overlap: float) -> None:
     printed = [t for t in grid if any(_touches(it, box(*t)) for it in items)]
     if not printed or not _connected(printed):
         printed = grid
-    crosses = _crosses(layout, cols, rows, cw, ch, overlap)
+    crosses = _crosses(cols, rows, cw, ch, overlap)
     for n, x, y in crosses:
         items += [Item("line", ((x - CROSS_MM / 2, y), (x + CROSS_MM / 2, y)), width=0.4),
                   Item("line", ((x, y - CROSS_MM / 2), (x, y + CROSS_MM / 2)), width=0.4),
