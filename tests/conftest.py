@@ -143,21 +143,3 @@ def paper_pt():
         "a4": (595.276, 841.89),  # source: ISO 216, A4 = 210 x 297 mm
         "letter": (612.0, 792.0),  # source: ANSI/ASME Y14.1, Letter = 8.5 x 11 in
     }
-
-
-@pytest.fixture(scope="session")
-def example_plan():
-    """The bundled example's Plan, made once per test session (read only)."""
-    from fabplan.design import load_design
-    from fabplan.plan import make_plan
-
-    return make_plan(load_design(EXAMPLE))
-
-
-@pytest.fixture(scope="session")
-def paper_pt():
-    """Paper sizes in PDF points (1 in = 25.4 mm = 72 pt), portrait (width, height)."""
-    return {
-        "a4": (595.276, 841.89),  # source: ISO 216, A4 = 210 x 297 mm
-        "letter": (612.0, 792.0),  # source: ANSI/ASME Y14.1, Letter = 8.5 x 11 in
-    }
