@@ -29,9 +29,13 @@ def test_plan_json_fields(run_cli, example_path):
     assert "od_mm" in data["stock"] and "wall_mm" in data["stock"]
     assert data["stock"]["mass_per_m_kg"] > 0
     assert isinstance(data["findings"], list)
-    # the example: 11 1/2 in side, 1 1/4 in centre spacing, 1/2 in gap (common practice,
-    # no source: 2 x side + pi x centre spacing - gap)
-    expected = (2 * 11.5 + math.pi * 1.25 - 0.5) * 25.4
+    # common practice, no source: 2 x side + pi x centre spacing - gap, with the
+    # example's own dimensions
+    from fabplan.design import load_design
+
+    p = load_design(example_path).elements[0].params
+    assert (p.length_kind, p.spacing_kind) == ("side", "centre_spacing")
+    expected = 2 * p.length_mm + math.pi * p.spacing_mm - p.feed_gap_mm
     assert e["developed_length_mm"] == pytest.approx(expected, abs=1e-3)
 
 
