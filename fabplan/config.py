@@ -8,12 +8,11 @@ dotted path (for example `element[2].spacing`).
 
 from __future__ import annotations
 
-import difflib
 import math
 from collections.abc import Iterable, Mapping
 from typing import Any
 
-from .errors import DesignError
+from .errors import DesignError, did_you_mean
 from .units import parse_angle, parse_frequency, parse_length
 
 __all__ = ["Section", "MISSING"]
@@ -63,8 +62,8 @@ class Section:
         allowed = self._used | set(also_allowed)
         for key in self.data:
             if key not in allowed:
-                near = difflib.get_close_matches(key, sorted(allowed), n=1, cutoff=0.6)
-                hint = f"; did you mean {near[0]!r}?" if near else ""
+                near = did_you_mean(key, allowed).strip()
+                hint = f"; {near}" if near else ""
                 known = ", ".join(sorted(allowed)) or "none"
                 raise DesignError(f"unknown key{hint} (known keys here: {known})",
                                   field=self.field(key))
@@ -124,8 +123,7 @@ class Section:
         if choices is not None:
             options = list(choices)
             if value not in options:
-                near = difflib.get_close_matches(value, options, n=1, cutoff=0.5)
-                hint = f"did you mean {near[0]!r}? " if near else ""
+                hint = did_you_mean(value, options, 0.5)
                 raise DesignError(f"{hint}must be one of: {', '.join(options)}",
                                   field=self.field(key), value=value)
         return value

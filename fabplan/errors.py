@@ -8,10 +8,12 @@ collected as `Finding` records with stable codes instead of being raised.
 
 from __future__ import annotations
 
+import difflib
+from collections.abc import Iterable
 from dataclasses import dataclass
 from typing import Literal
 
-__all__ = ["FabplanError", "DesignError", "Finding", "Severity", "SEVERITIES"]
+__all__ = ["FabplanError", "DesignError", "Finding", "Severity", "SEVERITIES", "did_you_mean"]
 
 Severity = Literal["info", "warning", "error"]
 SEVERITIES: tuple[Severity, ...] = ("info", "warning", "error")
@@ -65,3 +67,9 @@ class Finding:
     def to_dict(self) -> dict[str, str]:
         return {"code": self.code, "severity": self.severity, "message": self.message,
                 "element": self.element}
+
+
+def did_you_mean(word: str, options: Iterable[str], cutoff: float = 0.6) -> str:
+    """`"did you mean 'x'? "` for the nearest option, or "" when none is near."""
+    near = difflib.get_close_matches(word, sorted(options), n=1, cutoff=cutoff)
+    return f"did you mean {near[0]!r}? " if near else ""

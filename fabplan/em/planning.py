@@ -73,8 +73,10 @@ def element_path(plan, element, params: Any = None) -> tuple[BendPath, bool]:
     design_radii = [b.radius_mm for b in element.path.bends]
     if forming is None or len(path.bends) != len(design_radii):
         return path, False
+    # a bend that springs straight (infinite final radius) is already an error
+    # finding; the model keeps its design radius rather than an unbendable one
     ratios = {b.index: b.final_radius_mm / design_radii[b.index - 1] for b in forming.bends
-              if 1 <= b.index <= len(design_radii)}
+              if 1 <= b.index <= len(design_radii) and math.isfinite(b.final_radius_mm)}
     pieces = []
     index = 0
     for piece in path.pieces:

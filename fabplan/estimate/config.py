@@ -28,11 +28,10 @@ Every key is checked; errors name the field.
 
 from __future__ import annotations
 
-import difflib
 from dataclasses import dataclass
 
 from ..config import Section
-from ..errors import DesignError
+from ..errors import DesignError, did_you_mean
 from .costing import PRICE_UNITS, Currency, PriceUnit, parse_currency, parse_mass
 
 __all__ = ["Offer", "LineItem", "PurchaseSettings", "read_purchase"]
@@ -113,8 +112,7 @@ def _read_spares_by_element(sec: Section | None, design) -> tuple[tuple[str, int
     out = []
     for key in sec.keys():
         if key not in names:
-            near = difflib.get_close_matches(key, names, n=1, cutoff=0.5)
-            hint = f"did you mean {near[0]!r}? " if near else ""
+            hint = did_you_mean(key, names, 0.5)
             raise DesignError(f"{hint}no element has this name (elements: {', '.join(names)})",
                               field=sec.field(key))
         out.append((key, sec.integer(key, low=0, high=10_000)))

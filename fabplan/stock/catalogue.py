@@ -7,10 +7,9 @@ and may still name another material.
 
 from __future__ import annotations
 
-import difflib
 from dataclasses import dataclass
 
-from ..errors import DesignError
+from ..errors import DesignError, did_you_mean
 from ..units import IN
 from .profiles import Profile, Round, Tube, awg_diameter_mm
 
@@ -77,7 +76,6 @@ def get_stock_item(key: str, field: str = "stock.catalogue") -> StockItem:
     try:
         return CATALOGUE[key]
     except KeyError:
-        near = difflib.get_close_matches(key, CATALOGUE, n=1, cutoff=0.5)
-        hint = f"did you mean {near[0]!r}? " if near else ""
+        hint = did_you_mean(key, CATALOGUE, 0.5)
         raise DesignError(f"not in the stock catalogue; {hint}run `fabplan stock` for the list",
                           field=field, value=key) from None

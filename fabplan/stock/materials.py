@@ -12,7 +12,7 @@ import dataclasses
 from dataclasses import dataclass
 from typing import Literal
 
-from ..errors import DesignError
+from ..errors import DesignError, did_you_mean
 
 __all__ = ["Material", "MATERIALS", "get_material", "Family", "OVERRIDABLE"]
 
@@ -106,8 +106,6 @@ def get_material(key: str, field: str = "stock.material") -> Material:
     try:
         return MATERIALS[key]
     except KeyError:
-        import difflib
-        near = difflib.get_close_matches(key, MATERIALS, n=1, cutoff=0.5)
-        hint = f"did you mean {near[0]!r}? " if near else ""
+        hint = did_you_mean(key, MATERIALS, 0.5)
         raise DesignError(f"unknown material; {hint}known: {', '.join(MATERIALS)}",
                           field=field, value=key) from None

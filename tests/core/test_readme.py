@@ -3,8 +3,9 @@
 from __future__ import annotations
 
 import re
+from pathlib import Path
 
-from conftest import ROOT
+ROOT = Path(__file__).resolve().parents[2]
 
 
 def _commands() -> list[str]:
