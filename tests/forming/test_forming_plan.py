@@ -63,8 +63,9 @@ def test_plan_json_carries_forming_figures(run_cli, example_path):
     f = e["forming"]
     assert f["method"] == "former"
     assert len(f["formers"]) == 2
-    # the two end discs sit one straight side (11 1/2 in) apart
-    assert f["former_spacing_mm"] == [pytest.approx(11.5 * IN, abs=1e-3)]
+    # the two end discs sit one straight side apart
+    side = load_design(example_path).elements[0].params.length_mm
+    assert f["former_spacing_mm"] == [pytest.approx(side, abs=1e-3)]
     assert f["formers"][0]["diameter_mm"] == pytest.approx(2 * e["bends"][0]["former_radius_mm"],
                                                            abs=1e-3)
     assert f["formers"][0]["wrap_deg"] == pytest.approx(e["bends"][0]["overbend_deg"])
@@ -320,20 +321,23 @@ def test_folded_dipole_discs_and_splay_by_hand(example_path):
     plan = make_plan(load_design(example_path))
     e = plan.elements[0]
     f = e.forming
-    c = 1.25 * IN  # centre spacing
+    p = plan.design.elements[0].params
+    assert (p.length_kind, p.spacing_kind, p.feed_offset_mm) == ("side", "centre_spacing", 0.0)
+    side, c, gap = p.length_mm, p.spacing_mm, p.feed_gap_mm
     held = f.bends[0].former_centreline_radius_mm
     # each disc touches the unbroken side's centreline one held radius below it
     for disc in f.formers:
         assert disc.centre_mm[1] == pytest.approx(c / 2 - held, abs=1e-9)
-        assert abs(disc.centre_mm[0]) == pytest.approx(11.5 * IN / 2, abs=1e-9)
+        assert abs(disc.centre_mm[0]) == pytest.approx(side / 2, abs=1e-9)
     # splay by hand: release bend 1 from the drawn radius and angle (no compensation),
     # keep the unbroken side in place, and follow the fed-side leg to end A
     m = section_model(plan.design.stock.profile, law_for(plan.design.stock.material))
     r_d = c / 2
     r_rel = 1 / m.released_one(1 / r_d)
     th = math.radians(180.0 * r_d / r_rel)  # K = 0.5: the centreline keeps its length
-    cx, cy = 11.5 * IN / 2, c / 2 - r_rel
-    end = (cx + r_rel * math.sin(th) + 139.7 * math.cos(th),
-           cy + r_rel * math.cos(th) - 139.7 * math.sin(th))
-    by_hand = math.dist(end, (0.25 * IN, -c / 2))
+    cx, cy = side / 2, c / 2 - r_rel
+    leg = side / 2 - gap / 2  # the fed-side straight from the bend to end A
+    end = (cx + r_rel * math.sin(th) + leg * math.cos(th),
+           cy + r_rel * math.cos(th) - leg * math.sin(th))
+    by_hand = math.dist(end, (gap / 2, -c / 2))
     assert f.splay_if_ignored_mm == pytest.approx(by_hand, rel=1e-9)
