@@ -112,3 +112,13 @@ def test_python_dash_m_and_version(run_cli):
 def test_materials_and_stock_lists(run_cli):
     assert "cu-c11000-annealed" in run_cli("materials", check_exit=0).stdout
     assert "acr-1/4" in run_cli("stock", check_exit=0).stdout
+
+
+def test_console_script_is_installed():
+    """The `fabplan` entry point sits beside the interpreter that has the package."""
+    from pathlib import Path
+
+    script = Path(sys.executable).with_name("fabplan")
+    assert script.exists(), script
+    proc = subprocess.run([str(script), "shapes"], capture_output=True, text=True, timeout=120)
+    assert proc.returncode == 0 and "folded-dipole" in proc.stdout
