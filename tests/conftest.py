@@ -69,6 +69,29 @@ feed_gap = "{gap}"
 """
 
 
+# one folded dipole with a short electrical sweep (a quick plan with every stage)
+SWEPT_FOLDED_DIPOLE_TOML = """
+[project]
+name = "one folded dipole"
+[stock]
+catalogue = "acr-1/4"
+[[element]]
+name = "fd"
+shape = "folded-dipole"
+side = "11 1/2 in"
+centre_spacing = "1 1/4 in"
+feed_gap = "1/2 in"
+[electrical]
+target = "440 MHz"
+sweep = { from = "420 MHz", to = "460 MHz", step = "10 MHz" }
+"""
+
+
+@pytest.fixture
+def swept_folded_dipole_toml() -> str:
+    return SWEPT_FOLDED_DIPOLE_TOML
+
+
 @pytest.fixture
 def folded_dipole_toml():
     def make(d="4 mm", side="900 mm", spacing="50 mm", gap="12 mm", trim="0 mm") -> str:

@@ -102,7 +102,7 @@ def test_bad_paper_is_one_line_exit_2(run_cli, example_path, tmp_path, args):
     assert not target.exists()
 
 
-def test_build_writes_the_sweep_as_csv(run_cli, write_design, tmp_path):
+def test_build_writes_the_sweep_as_csv(run_cli, write_design, swept_folded_dipole_toml, tmp_path):
     """With an [electrical] table the build adds sweep.csv: one row per
     frequency, the Plan's impedance and SWR (read back with the csv module)."""
     import csv
@@ -110,21 +110,7 @@ def test_build_writes_the_sweep_as_csv(run_cli, write_design, tmp_path):
     from fabplan.design import load_design
     from fabplan.plan import make_plan
 
-    design = write_design("""
-[project]
-name = "one folded dipole"
-[stock]
-catalogue = "acr-1/4"
-[[element]]
-name = "fd"
-shape = "folded-dipole"
-side = "11 1/2 in"
-centre_spacing = "1 1/4 in"
-feed_gap = "1/2 in"
-[electrical]
-target = "440 MHz"
-sweep = { from = "420 MHz", to = "460 MHz", step = "10 MHz" }
-""")
+    design = write_design(swept_folded_dipole_toml)
     out = tmp_path / "out"
     proc = run_cli("build", design, "-o", out)
     assert proc.returncode in (0, 1), proc.stderr  # 1: error findings, files still written

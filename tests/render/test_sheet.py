@@ -127,23 +127,8 @@ def test_later_stages_sections(example_plan, a4):
         assert "Bill of material" not in text
 
 
-def test_electrical_summary_and_swr_plot(write_design):
-    text = """
-[project]
-name = "one folded dipole"
-[stock]
-catalogue = "acr-1/4"
-[[element]]
-name = "fd"
-shape = "folded-dipole"
-side = "11 1/2 in"
-centre_spacing = "1 1/4 in"
-feed_gap = "1/2 in"
-[electrical]
-target = "440 MHz"
-sweep = { from = "420 MHz", to = "460 MHz", step = "10 MHz" }
-"""
-    p = make_plan(load_design(write_design(text)))
+def test_electrical_summary_and_swr_plot(write_design, swept_folded_dipole_toml):
+    p = make_plan(load_design(write_design(swept_folded_dipole_toml)))
     sw = p.elements[0].electrical.sweep
     data = sheet_pdf(p, "a4")
     flat = _flat(data)
