@@ -714,6 +714,8 @@ def _helix_parts(plan, e, s: JigSettings) -> tuple[list[Part], list[Finding]]:
                                "mandrel")]
     for i in range(n):
         xi = i * pitch
+        if xi + pitch / 2 > coil + 1e-9:  # the front half of a turn lies on the mandrel
+            break
         mitems.append(Item("reference", Line((xi, 0.0), (xi + pitch / 2, mandrel_d)), "turn"))
     lines = [f"{e.name}: winding mandrel (not to cut from plate)",
              f"mandrel dia {_len(mandrel_d, units)} (springback-compensated)",

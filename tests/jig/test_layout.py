@@ -196,6 +196,13 @@ def test_helix_gets_a_mandrel_and_a_pitch_guide(helix_plan):
     mandrel = [it.shape for it in parts["mandrel"].items if it.role == "mandrel"][0]
     ys = [p[1] for p in mandrel.points()]
     assert max(ys) - min(ys) == pytest.approx(2 * e.forming.bends[0].former_radius_mm)
+    # one line per turn (its front half), every one on the mandrel's body
+    turns = [it.shape for it in parts["mandrel"].items if it.role == "turn"]
+    assert len(turns) == round(e.bends[0].angle_deg / 360)
+    xs = [p[0] for p in mandrel.points()]
+    for line in turns:
+        for x, _ in (line.start, line.end):
+            assert min(xs) - 1e-9 <= x <= max(xs) + 1e-9
     notes = " ".join(it.shape.text for it in parts["mandrel"].items
                      if isinstance(it.shape, Text))
     assert f"{e.bends[0].pitch_mm:.2f} mm" in notes
