@@ -8,6 +8,7 @@ through the readers listed in `EXTENSIONS`. Everything comes out in millimetres.
 
 from __future__ import annotations
 
+import dataclasses
 import importlib
 import tomllib
 from dataclasses import dataclass, field
@@ -130,7 +131,6 @@ def read_design(doc: dict, source: str = "<design>") -> Design:
         extras[attr] = reader(top, design)
     top.finish()
     if extras:
-        import dataclasses
         design = dataclasses.replace(design, **extras)
     return design
 

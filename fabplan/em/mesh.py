@@ -131,7 +131,7 @@ def mesh_path(path: BendPath, h_max_mm: float, min_seg_per_180: int = 8,
             pieces.append(_Piece(prim, prim.length, n_min))
         else:
             pieces.append(_Piece(prim, prim.length))
-    a_end, b_end = path.gap_ends()[1], path.gap_ends()[0]
+    b_end, a_end = path.gap_ends()
     gap_len = float(np.linalg.norm(a_end - b_end))
     if gap_len <= 0:
         raise FabplanError("the ends meet: the feed gap has no width", field="gap",

@@ -18,7 +18,7 @@ from ...errors import DesignError, Finding
 from ..path import BendPath
 
 __all__ = ["ShapeSpec", "pick_one", "spacing_centre", "gap_and_offset", "arc_angle_of_chord",
-           "too_short"]
+           "centre_to_centre"]
 
 
 @dataclass(frozen=True)
@@ -47,9 +47,14 @@ def pick_one(sec: Section, keys: tuple[str, ...]) -> tuple[str, float]:
     return present[0], sec.length(present[0])
 
 
-def spacing_centre(sec: Section, diameter_key_hint: str = "spacing") -> tuple[str, float]:
+def spacing_centre(sec: Section) -> tuple[str, float]:
     """`spacing` (inside, between conductor surfaces) or `centre_spacing`."""
-    return pick_one(sec, (diameter_key_hint, "centre_spacing"))
+    return pick_one(sec, ("spacing", "centre_spacing"))
+
+
+def centre_to_centre(kind: str, spacing_mm: float, diameter_mm: float) -> float:
+    """Centre-to-centre spacing (mm) from `spacing` (inside) or `centre_spacing`."""
+    return spacing_mm + diameter_mm if kind == "spacing" else spacing_mm
 
 
 def gap_and_offset(sec: Section, default_gap_mm: float = 10.0) -> tuple[float, float]:
@@ -63,7 +68,3 @@ def arc_angle_of_chord(chord: float, radius: float) -> float:
     """Angle (rad) subtended by a chord on a circle."""
     return 2 * math.asin(min(1.0, chord / (2 * radius)))
 
-
-def too_short(code: str, what: str, length: float, element: str = "") -> Finding:
-    return Finding(code, "error", f"{what} comes out {length:.1f} mm long: the dimensions leave no "
-                   "room for it; lengthen the element or shrink the gap, spacing or radius")

@@ -17,7 +17,7 @@ from typing import Literal
 from ...config import Section
 from ...errors import DesignError, Finding
 from ..path import Bend, BendPath, Straight
-from .base import ShapeSpec, gap_and_offset, pick_one, spacing_centre
+from .base import ShapeSpec, centre_to_centre, gap_and_offset, pick_one, spacing_centre
 
 NAME = "folded-dipole"
 SUMMARY = "two parallel sides joined by 180-degree ends, fed at a gap in one side"
@@ -35,7 +35,7 @@ class Params:
     bend_radius_mm: float | None = None
 
     def centre_spacing(self, d: float) -> float:
-        return self.spacing_mm + d if self.spacing_kind == "spacing" else self.spacing_mm
+        return centre_to_centre(self.spacing_kind, self.spacing_mm, d)
 
     def side(self, d: float) -> float:
         """Straight side length (centreline, mm)."""

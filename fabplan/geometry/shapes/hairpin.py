@@ -14,7 +14,7 @@ from typing import Literal
 from ...config import Section
 from ...errors import Finding
 from ..path import Bend, BendPath, Straight
-from .base import ShapeSpec, spacing_centre
+from .base import ShapeSpec, centre_to_centre, spacing_centre
 
 NAME = "hairpin"
 SUMMARY = "two parallel legs joined by a 180-degree bend (or two 90-degree bends)"
@@ -29,7 +29,7 @@ class Params:
     bend_radius_mm: float | None = None
 
     def centre_spacing(self, d: float) -> float:
-        return self.spacing_mm + d if self.spacing_kind == "spacing" else self.spacing_mm
+        return centre_to_centre(self.spacing_kind, self.spacing_mm, d)
 
     def radius(self, d: float) -> float:
         if self.end_style == "square":
