@@ -36,8 +36,8 @@ def folded_dipole_model(unknowns_target: int):
 
 def main() -> None:
     import scipy.linalg  # noqa: F401  (import cost is not the solver's)
-    import scipy.special  # noqa: F401
     import scipy.spatial  # noqa: F401
+    import scipy.special  # noqa: F401
 
     print(f"OPENBLAS_NUM_THREADS={os.environ.get('OPENBLAS_NUM_THREADS', '(unset)')}, "
           f"cpus={os.cpu_count()}")

@@ -36,7 +36,8 @@ def main() -> None:
     result = tuning.tune(plan, element, settings, settings.target_hz)
     t2, c2 = time.perf_counter(), time.process_time()
     print(f"element: {element.name}; {result.key} {result.old_value_mm:.2f} -> "
-          f"{result.new_value_mm:.2f} mm; {result.old_hz / 1e6:.3f} -> {result.new_hz / 1e6:.4f} MHz")
+          f"{result.new_value_mm:.2f} mm; {result.old_hz / 1e6:.3f} -> "
+          f"{result.new_hz / 1e6:.4f} MHz")
     print(f"secant steps: {result.iterations}; models built: {result.models_built}")
     print(f"load + plan (no electrical): {t1 - t0:.2f} s; tuning: {t2 - t1:.2f} s wall, "
           f"{c2 - c1:.2f} s CPU")

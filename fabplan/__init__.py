@@ -19,13 +19,13 @@ logging.getLogger("fabplan").addHandler(logging.NullHandler())
 from .errors import FabplanError  # noqa: E402
 
 if TYPE_CHECKING:  # pragma: no cover
-    from .design import load_design
+    from .design.read import load_design
     from .plan import make_plan
 
 
 def __getattr__(name: str) -> Any:
     if name == "load_design":
-        from .design import load_design
+        from .design.read import load_design
         return load_design
     if name == "make_plan":
         from .plan import make_plan

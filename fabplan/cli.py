@@ -1,22 +1,47 @@
-"""The command line. Parses options, calls the core, calls a renderer; no
-engineering here. Bad input prints one line and exits with status 2."""
+"""The command line: the `fabplan` group and its commands, registered explicitly.
+
+Each command lives in a module of fabplan/commands/ (parse options, call the
+core, call a renderer; no engineering). Bad input prints one line and exits
+with status 2; error findings exit 1.
+"""
 
 from __future__ import annotations
 
-import importlib
 import sys
-from importlib import resources
-from pathlib import Path
+from typing import Any
 
 import click
 
 from . import __version__
-from .commands.base import EXIT_BAD_INPUT, EXIT_FINDINGS, design_argument, guarded, load_plan
-from .errors import FabplanError
+from .commands import core, em, estimate, jig, output
 
-__all__ = ["main", "EXIT_BAD_INPUT", "EXIT_FINDINGS", "design_argument", "guarded", "load_plan"]
+__all__ = ["main"]
 
-@click.group(context_settings={"help_option_names": ["-h", "--help"]})
+
+class _Fabplan(click.Group):
+    """The command group, with click's usage errors as one line and exit 2."""
+
+    def main(self, args: Any = None, prog_name: str | None = None,
+             complete_var: str | None = None, standalone_mode: bool = True,
+             **extra: Any) -> Any:
+        if not standalone_mode:
+            return super().main(args, prog_name, complete_var, False, **extra)
+        try:
+            code = super().main(args, prog_name, complete_var, False, **extra)
+        except click.UsageError as exc:
+            where = f"{exc.ctx.command_path}: " if exc.ctx is not None else ""
+            click.echo(f"fabplan: error: {where}{exc.format_message()}", err=True)
+            sys.exit(2)
+        except click.Abort:
+            click.echo("fabplan: interrupted", err=True)
+            sys.exit(130)
+        except click.ClickException as exc:
+            click.echo(f"fabplan: error: {exc.format_message()}", err=True)
+            sys.exit(exc.exit_code)
+        sys.exit(code if isinstance(code, int) else 0)
+
+
+@click.group(cls=_Fabplan, context_settings={"help_option_names": ["-h", "--help"]})
 @click.version_option(__version__, prog_name="fabplan")
 @click.option("--debug", is_flag=True, help="Show a traceback on errors.")
 def main(debug: bool) -> None:
@@ -28,107 +53,9 @@ def main(debug: bool) -> None:
     """
 
 
-@main.command()
-@design_argument
-@click.option("--json", "as_json", is_flag=True, help="Print the plan as JSON (mm, kg, deg).")
-@guarded
-def plan(design: Path, as_json: bool) -> None:
-    """Print the fabrication plan: lengths, bend table, marks, findings."""
-    from .render.report import plan_to_json, plan_to_text
-
-    p = load_plan(design)
-    click.echo(plan_to_json(p) if as_json else plan_to_text(p), nl=False)
-
-
-@main.command()
-@design_argument
-@guarded
-def check(design: Path) -> None:
-    """Validate a design and list findings (exit 0 buildable, 1 errors, 2 bad input)."""
-    from .render.report import findings_text
-
-    p = load_plan(design)
-    click.echo(findings_text(p))
-    errors = sum(f.severity == "error" for f in p.findings)
-    warnings = sum(f.severity == "warning" for f in p.findings)
-    click.echo(f"{errors} error(s), {warnings} warning(s): "
-               + ("not buildable as it stands." if errors else "buildable."))
-    if errors:
-        sys.exit(EXIT_FINDINGS)
-
-
-@main.command()
-def shapes() -> None:
-    """List the shape templates."""
-    from .geometry.shapes import SHAPES
-
-    width = max(len(n) for n in SHAPES)
-    for name, spec in SHAPES.items():
-        click.echo(f"{name.ljust(width)}  {spec.summary}")
-
-
-@main.command()
-@click.argument("shape")
-@click.option("-o", "--output", type=click.Path(dir_okay=False, path_type=Path),
-              help="Write to this file instead of standard output.")
-@click.option("--force", is_flag=True, help="Replace an existing file.")
-@guarded
-def new(shape: str, output: Path | None, force: bool) -> None:
-    """Write a commented design file for SHAPE."""
-    from .geometry.shapes import SHAPES
-    from .render.files import write_text
-
-    if shape not in SHAPES:
-        raise FabplanError(f"unknown shape; run `fabplan shapes` (known: {', '.join(SHAPES)})",
-                           field="SHAPE", value=shape)
-    text = resources.files("fabplan").joinpath("templates", f"{shape}.toml").read_text("utf-8")
-    if output is None:
-        click.echo(text, nl=False)
-    else:
-        write_text(output, text, force)
-        click.echo(f"wrote {output}")
-
-
-@main.command()
-def materials() -> None:
-    """List the materials with their key properties and sources."""
-    from .render.report import table
-    from .stock.materials import MATERIALS
-
-    rows = [[m.key, f"{m.density_kg_m3:g}", f"{m.youngs_modulus_mpa / 1000:g}",
-             f"{m.yield_mpa:g}", f"{m.resistivity_ohm_m * 1e8:.2f}", m.name]
-            for m in MATERIALS.values()]
-    click.echo(table(["key", "kg/m3", "E GPa", "yield MPa", "uohm cm", "name"], rows, "lrrrrl"))
-
-
-@main.command()
-def stock() -> None:
-    """List the stock catalogue (use the key as [stock] catalogue = "...")."""
-    from .render.report import table
-    from .stock.catalogue import CATALOGUE
-
-    rows = [[i.key, i.description, i.material, i.source] for i in CATALOGUE.values()]
-    click.echo(table(["key", "description", "default material", "source"], rows))
-
-
-# Commands of later stages live in fabplan/commands/, one module per stage,
-# each with a COMMANDS list of click commands. Keep those modules light: heavy
-# imports inside the command functions.
-COMMAND_MODULES: list[str] = [
-    "fabplan.commands.estimate",
-    "fabplan.commands.em",
-    "fabplan.commands.output",
-    "fabplan.commands.jig",
-]
-
-
-def _register_commands() -> None:
-    for name in COMMAND_MODULES:
-        for command in importlib.import_module(name).COMMANDS:
-            main.add_command(command)
-
-
-_register_commands()
+for _module in (core, estimate, em, output, jig):
+    for _command in _module.COMMANDS:
+        main.add_command(_command)
 
 if __name__ == "__main__":  # pragma: no cover
     main()

@@ -42,7 +42,7 @@ class FabplanError(Exception):
             return f"{head}{shown}: {self.rule}"
         return f"{self.value!r}: {self.rule}" if self.value is not None else self.rule
 
-    def with_source(self, source: str) -> "FabplanError":
+    def with_source(self, source: str) -> FabplanError:
         """The same error, naming the file it came from."""
         return type(self)(self.rule, field=self.field, value=self.value, source=source)
 

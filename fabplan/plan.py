@@ -1,92 +1,65 @@
 """Design -> Plan: the one record of every figure fabplan reports.
 
-`make_plan` computes each element's bend path, developed and cut lengths,
-bend table and marks, and collects findings; later stages listed in `STEPS`
-(forming, estimate, electrical) each take the Plan and return it with their
-figures added. Renderers read the Plan and nothing else.
+`make_plan` calls the stages explicitly, in this order, each a pure function
+of typed inputs returning a typed record; no stage rewrites another's output:
+
+    ends        a bender's square ends, chosen before any length (forming.ends)
+    geometry    every element's pieces of stock and gaps (lengths.stage)
+    core        developed and cut lengths, bend table, marks (lengths.stage)
+    forming     springback, formers, tool marks, limits, bend order (forming.stage)
+    estimate    weight, cost, purchase plan (estimate.stage)
+    jig         bending jigs laid out on machine beds (jig.stage)
+    electrical  impedance, SWR, resonance of each fed element (em.stage)
+
+Renderers read the Plan and nothing else.
 """
 
 from __future__ import annotations
 
 import dataclasses
-import importlib
-import math
 from dataclasses import dataclass
-from typing import Any
 
-from .design import Design, ElementSpec
+from .design.forming import FormingSettings
+from .design.jig import JigSettings
+from .design.model import Design, ElementSpec, StockSpec
+from .em.records import ElementElectrical, PlanElectrical
+from .em.stage import ElectricalInput, electrical
 from .errors import Finding
-from .geometry.path import BendPath, BendSpan
+from .estimate.records import ElementEstimate, Order
+from .estimate.stage import estimate
+from .forming.ends import resolve_ends
+from .forming.records import ElementForming
+from .forming.stage import StockModel, form_piece, stock_model
+from .geometry.placement import Placement
 from .geometry.shapes import SHAPES
+from .geometry.shapes.base import ElementGeometry
+from .jig.records import JigLayout, JigPiece
+from .jig.stage import layout_jig
+from .lengths.records import PieceCore, StockSummary
+from .lengths.stage import element_geometry, plan_pieces, stock_summary
 
-__all__ = ["Plan", "ElementPlan", "BendRow", "Mark", "StockSummary", "make_plan",
-           "element_path", "STEPS", "plan_element"]
-
-Vec = tuple[float, float, float]
-
-
-@dataclass(frozen=True)
-class BendRow:
-    """One bend, in trade order from end A. Positions are along the stock's
-    neutral axis in mm, from the stock's centre (negative towards end A) and
-    from the cut end A (trim included)."""
-
-    index: int
-    angle_deg: float
-    centreline_radius_mm: float
-    rotation_deg: float
-    pitch_mm: float
-    straight_before_mm: float
-    neutral_radius_mm: float
-    arc_length_mm: float
-    start_from_centre_mm: float
-    end_from_centre_mm: float
-    start_from_end_mm: float
-    end_from_end_mm: float
-    start_point: Vec
-    end_point: Vec
+__all__ = ["Plan", "ElementPlan", "PiecePlan", "make_plan", "core_element", "electrical_input",
+           "jig_pieces", "jig_for"]
 
 
 @dataclass(frozen=True)
-class Mark:
-    """A pencil mark on the straight stock."""
+class PiecePlan(PieceCore):
+    """One piece of stock: its core figures and how it is formed."""
 
-    label: str
-    kind: str  # "centre", "bend-start", "bend-end", "gap", "end"
-    from_centre_mm: float
-    from_end_mm: float
-
-
-@dataclass(frozen=True)
-class StockSummary:
-    description: str
-    material_key: str
-    material_name: str
-    material_source: str
-    profile: Any
-    mass_per_m_kg: float
-    source: str
-    k_factor: float
+    forming: ElementForming | None = None
 
 
 @dataclass(frozen=True)
 class ElementPlan:
+    """One element: its spec as it will be made, where it sits, the pieces of
+    stock it is made of and the gaps between their ends, and its weight, cost
+    and electrical check."""
+
     spec: ElementSpec
-    path: BendPath
-    conductor_diameter_mm: float
-    centreline_length_mm: float
-    developed_length_mm: float
-    trim_mm: float  # per end
-    cut_length_mm: float
-    gap_mm: float | None
-    bends: tuple[BendRow, ...]
-    marks: tuple[Mark, ...]
-    tail_straight_mm: float
-    planar: bool
-    mass_kg: float  # one element, cut length of stock
-    forming: Any = None  # forming.ElementForming
-    estimate: Any = None
-    electrical: Any = None
+    geometry: ElementGeometry
+    pieces: tuple[PiecePlan, ...]
+    estimate: ElementEstimate | None = None
+    electrical: ElementElectrical | None = None
 
     @property
     def name(self) -> str:
@@ -96,15 +69,52 @@ class ElementPlan:
     def quantity(self) -> int:
         return self.spec.quantity
 
+    @property
+    def placement(self) -> Placement:
+        return self.spec.placement
+
+    @property
+    def piece(self) -> PiecePlan:
+        """The element's one piece of stock (an error for an element of several)."""
+        if len(self.pieces) != 1:
+            raise ValueError(f"{self.name!r} is made of {len(self.pieces)} pieces of stock")
+        return self.pieces[0]
+
+    @property
+    def feed_gap_mm(self) -> float | None:
+        feed = self.geometry.feed
+        return None if feed is None else feed.width_mm
+
+    def piece_name(self, piece: PieceCore) -> str:
+        """How a piece is named on the sheet and in findings."""
+        return _piece_name(self.spec, piece)
+
+    @property
+    def developed_length_mm(self) -> float:
+        """All the element's stock, end to end (mm)."""
+        return sum(p.developed_length_mm for p in self.pieces)
+
+    @property
+    def cut_length_mm(self) -> float:
+        """All the element's cut pieces, trim included (mm)."""
+        return sum(p.cut_length_mm for p in self.pieces)
+
+    @property
+    def mass_kg(self) -> float:
+        return sum(p.mass_kg for p in self.pieces)
+
 
 @dataclass(frozen=True)
 class Plan:
+    """Every figure fabplan reports about one design."""
+
     design: Design
     stock: StockSummary
     elements: tuple[ElementPlan, ...]
     findings: tuple[Finding, ...]
-    order: Any = None  # estimate.Order
-    electrical: Any = None
+    order: Order | None = None
+    jig: JigLayout | None = None
+    electrical: PlanElectrical | None = None
 
     @property
     def has_errors(self) -> bool:
@@ -117,104 +127,98 @@ class Plan:
         raise KeyError(name)
 
 
-# later stages, each "module:function" taking a Plan and returning a Plan
-STEPS: list[str] = [
-    "fabplan.forming.planning:apply",
-    "fabplan.estimate.planning:apply",
-    "fabplan.em.planning:apply",
-]
-
-
-def element_path(spec: ElementSpec, diameter_mm: float) -> BendPath:
-    return SHAPES[spec.shape].build(spec.params, diameter_mm)
-
-
-def plan_element(design: Design, spec: ElementSpec) -> tuple[ElementPlan, list[Finding]]:
-    """The core figures of one element and the findings about its geometry."""
-    stock = design.stock
-    d = stock.profile.outer_diameter_mm
-    depth = stock.profile.depth_mm
-    k = stock.k_factor
-    shape = SHAPES[spec.shape]
-    findings = [dataclasses.replace(f, element=spec.name) for f in shape.problems(spec.params, d)]
-    path = shape.build(spec.params, d)
-    developed = path.developed_length(depth, k)
-    centre = developed / 2
-    trim = design.shop.trim_mm if spec.trim_mm is None else spec.trim_mm
-    rows = []
-    marks = [Mark("centre of stock", "centre", 0.0, trim + centre)]
-    for span in path.spans(depth, k):
-        rows.append(_row(span, centre, trim))
-        marks.append(Mark(f"bend {span.index} start", "bend-start", span.start_mm - centre,
-                          trim + span.start_mm))
-        marks.append(Mark(f"bend {span.index} end", "bend-end", span.end_mm - centre,
-                          trim + span.end_mm))
-    if trim > 0:
-        marks.append(Mark("end A (trim line)", "end", -centre, trim))
-        marks.append(Mark("end B (trim line)", "end", centre, trim + developed))
-    marks.sort(key=lambda m: m.from_centre_mm)
-    cut = developed + 2 * trim
-    findings += _geometry_findings(spec, path, d, stock.k_factor_given)
-    mass = stock.profile.mass_per_m_kg(stock.material.density_kg_m3) * cut / 1000
-    plan = ElementPlan(spec, path, d, path.centreline_length(), developed, trim, cut,
-                       path.gap_mm, tuple(rows), tuple(marks), path.tail_straight(),
-                       path.is_planar(), mass)
-    return plan, findings
-
-
-def _row(span: BendSpan, centre: float, trim: float) -> BendRow:
-    b = span.bend
-    return BendRow(span.index, b.angle_deg, b.radius_mm, b.rotation_deg, b.pitch_mm,
-                   span.straight_before_mm, span.neutral_radius_mm, span.end_mm - span.start_mm,
-                   span.start_mm - centre, span.end_mm - centre, trim + span.start_mm,
-                   trim + span.end_mm, span.start_point, span.end_point)
-
-
-def _geometry_findings(spec: ElementSpec, path: BendPath, d: float,
-                       k_given: bool) -> list[Finding]:
-    out = []
-    for s1, s2, dist in path.touching(d):
-        out.append(Finding("conductors-touch", "error",
-                           f"the conductor comes within {dist:.2f} mm centre to centre of itself "
-                           f"({s1:.0f} mm and {s2:.0f} mm along the stock), less than its "
-                           f"{d:.2f} mm diameter: the surfaces touch or cross; change the "
-                           "dimensions", spec.name))
-    if path.gap_mm is not None and path.closure_error() > max(0.5, 0.1 * d):
-        out.append(Finding("ends-do-not-meet", "error",
-                           f"the stock's ends miss the {path.gap_mm:.1f} mm feed gap by "
-                           f"{path.closure_error():.1f} mm", spec.name))
-    tight = [b for b in path.bends if b.radius_mm / d < 1.5]
-    if tight and not k_given:
-        worst = min(b.radius_mm / d for b in tight)
-        out.append(Finding("k-factor-matters", "warning",
-                           f"a bend's centreline radius is only {worst:.2f} x the stock "
-                           "diameter: the neutral axis moves inward in bends this tight, so the "
-                           "default K = 0.5 makes the stock a little long; set stock.k_factor "
-                           "(about 0.35-0.45) or calibrate from a test bend", spec.name))
-    if any(b.radius_mm < d / 2 for b in path.bends):
-        out.append(Finding("bend-radius-below-stock", "error",
-                           f"a bend's centreline radius is less than half the {d:.2f} mm stock: "
-                           "it cannot be bent; use a larger radius", spec.name))
-    return out
+def core_element(design: Design, spec: ElementSpec) -> tuple[ElementGeometry,
+                                                              tuple[PieceCore, ...],
+                                                              list[Finding]]:
+    """The geometry and core figures of one element as specified (no ends step):
+    for a tuner that changes one dimension and wants the new lengths."""
+    geometry = element_geometry(design, spec)
+    pieces, found = plan_pieces(design, spec, geometry)
+    return geometry, pieces, found
 
 
 def make_plan(design: Design) -> Plan:
-    """Every figure for every element, then the later stages in order."""
-    elements = []
+    """Every figure for every element, the stages called in their order."""
     findings: list[Finding] = []
+    forming_settings = design.forming or FormingSettings()
+    models: dict[StockSpec, StockModel] = {}
+
+    def model_of(spec: ElementSpec) -> StockModel:
+        stock = design.stock_of(spec)
+        if stock not in models:
+            models[stock] = stock_model(stock, forming_settings)
+        return models[stock]
+
+    # ends: what a bender makes, decided before any length
+    specs: list[ElementSpec] = []
+    ends_found: list[list[Finding]] = []
     for spec in design.elements:
-        element, found = plan_element(design, spec)
-        elements.append(element)
-        findings.extend(found)
-    stock = design.stock
-    summary = StockSummary(stock.description, stock.material.key, stock.material.name,
-                           stock.material.source, stock.profile,
-                           stock.profile.mass_per_m_kg(stock.material.density_kg_m3),
-                           stock.source, stock.k_factor)
-    plan = Plan(design, summary, tuple(elements), tuple(findings))
-    for where in STEPS:
-        module, func = where.split(":")
-        plan = getattr(importlib.import_module(module), func)(plan)
-    return plan
+        made, found = resolve_ends(design, spec, forming_settings, model_of(spec))
+        specs.append(made)
+        ends_found.append(found)
+    # geometry and core
+    geometries = [element_geometry(design, spec) for spec in specs]
+    cores: list[tuple[PieceCore, ...]] = []
+    for spec, geometry in zip(specs, geometries):
+        pieces, found = plan_pieces(design, spec, geometry)
+        cores.append(pieces)
+        findings += found
+    # forming
+    formed: list[tuple[PiecePlan, ...]] = []
+    for spec, pieces, ends in zip(specs, cores, ends_found):
+        findings += ends
+        parallel = SHAPES[spec.shape].parallel_ends
+        out = []
+        for piece in pieces:
+            forming, found = form_piece(piece, _piece_name(spec, piece), model_of(spec),
+                                        forming_settings, parallel, bool(ends))
+            findings += found
+            out.append(PiecePlan(**{f.name: getattr(piece, f.name)
+                                    for f in dataclasses.fields(PieceCore)}, forming=forming))
+        formed.append(tuple(out))
+    # estimate
+    est = estimate(design, list(zip(specs, cores)))
+    findings += est.findings
+    # jig
+    jig = layout_jig(design.project, [JigPiece(_piece_name(spec, p), p, p.forming)
+                                      for spec, pieces in zip(specs, formed) for p in pieces
+                                      if p.forming is not None and p.bends],
+                     design.jig or JigSettings())
+    findings += jig.findings
+    # electrical
+    checked: tuple[ElementElectrical | None, ...] = (None,) * len(specs)
+    plan_electrical = None
+    if design.electrical is not None:
+        inputs = [electrical_input(design, spec, pieces) for spec, pieces in zip(specs, formed)]
+        checked, plan_electrical, found = electrical(inputs, design.electrical)
+        findings += found
+    elements = tuple(ElementPlan(*parts) for parts in zip(specs, geometries, formed,
+                                                          est.elements, checked))
+    return Plan(design, stock_summary(design.stock), elements, tuple(findings), est.order, jig,
+                plan_electrical)
 
 
+def _piece_name(spec: ElementSpec, piece: PieceCore) -> str:
+    return spec.name if not piece.label else f"{spec.name}, {piece.label}"
+
+
+def electrical_input(design: Design, spec: ElementSpec,
+                     pieces: tuple[PiecePlan, ...]) -> ElectricalInput | None:
+    """What the electrical stage models of an element (None for an element of
+    several pieces, which the single-element model cannot take)."""
+    if len(pieces) != 1:
+        return None
+    piece = pieces[0]
+    return ElectricalInput(spec, design.stock_of(spec), piece, piece.forming)
+
+
+def jig_pieces(plan: Plan) -> list[JigPiece]:
+    """Every piece of the plan that gets a jig (it has bends and forming figures)."""
+    return [JigPiece(e.piece_name(p), p, p.forming) for e in plan.elements for p in e.pieces
+            if p.forming is not None and p.bends]
+
+
+def jig_for(plan: Plan, settings: JigSettings) -> JigLayout:
+    """The plan's jigs laid out again with other `[jig]` settings (nothing else
+    changes: the jig stage reads only the pieces and their forming figures)."""
+    return layout_jig(plan.design.project, jig_pieces(plan), settings)

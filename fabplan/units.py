@@ -1,23 +1,32 @@
-"""Lengths in millimetres inside; inches, feet, cm and m at the edges.
+"""Quantities at the edges: parsing what people type, formatting what they read.
 
-A length in a design file is a string with its unit: "35 1/4 in", "35.25in",
-"2 ft 11 1/4 in", "2'-11 1/4\"", "1/4\"", "894.6 mm", "89.46 cm", "0.8946 m".
-A bare number is an error, never a guess.
+Inside, lengths are millimetres, masses kilograms, frequencies hertz, power
+watts. A length in a design file is a string with its unit: "35 1/4 in",
+"35.25in", "2 ft 11 1/4 in", "2'-11 1/4\"", "1/4\"", "894.6 mm", "89.46 cm",
+"0.8946 m". A bare number is an error, never a guess.
+
+This is the one module that formats numbers for people: every renderer (text,
+tables, the build sheet, drawings) and every finding message takes its
+lengths, frequencies, money and weights from here.
 """
 
 from __future__ import annotations
 
 import math
 import re
+from dataclasses import dataclass
 from fractions import Fraction
 from typing import Literal
 
 from .errors import DesignError
 
 __all__ = [
-    "MM", "CM", "M", "IN", "FT", "LengthUnit", "LENGTH_UNITS", "FRACTIONS",
-    "parse_length", "parse_frequency", "parse_angle", "format_inches", "format_mm",
-    "format_length", "format_frequency",
+    "MM", "CM", "M", "IN", "FT", "LB_KG", "OZ_KG", "LengthUnit", "LENGTH_UNITS", "FRACTIONS",
+    "Currency", "CURRENCY_SYMBOLS",
+    "parse_length", "parse_frequency", "parse_angle", "parse_mass", "parse_power",
+    "parse_currency", "format_inches", "format_mm", "format_length", "format_signed_length",
+    "format_frequency", "format_money", "format_weight", "format_number",
+    "format_drawing_length", "wrap_words",
 ]
 
 MM = 1.0
@@ -25,6 +34,9 @@ CM = 10.0
 M = 1000.0
 IN = 25.4
 FT = 304.8
+# source: NIST SP 811, appendix B (exact definitions of the avoirdupois pound and ounce)
+LB_KG = 0.45359237
+OZ_KG = LB_KG / 16
 
 LengthUnit = Literal["in", "mm"]
 LENGTH_UNITS: tuple[LengthUnit, ...] = ("in", "mm")
@@ -192,3 +204,128 @@ def format_frequency(hz: float) -> str:
     if hz >= 1e3:
         return f"{hz / 1e3:.2f} kHz"
     return f"{hz:.1f} Hz"
+
+
+def format_signed_length(mm: float, primary: LengthUnit = "in", denominator: int = 32) -> str:
+    """A change of length with its sign: `+1/8" (+3.2 mm)`, `-2.0 mm`."""
+    sign = "+" if mm > 0 else ""
+    if primary == "in":
+        return f"{sign}{format_inches(mm, denominator)} ({sign}{format_mm(mm)})"
+    return f"{sign}{format_mm(mm)}"
+
+
+def format_number(x: float, places: int = 1) -> str:
+    """A figure to `places` decimals, never "-0.0"."""
+    v = round(x, places)
+    return f"{0.0 if v == 0 else v:.{places}f}"
+
+
+def format_weight(kg: float, unit: LengthUnit = "mm") -> str:
+    """`84.8 g`, `1.234 kg`; with pounds beside it when the shop works in inches."""
+    text = f"{kg * 1000:.1f} g" if kg < 1 else f"{kg:.3f} kg"
+    return f"{text} ({kg / LB_KG:.2f} lb)" if unit == "in" else text
+
+
+# -- money ---------------------------------------------------------------------
+# currency symbols accepted in place of an ISO 4217 code (written before the amount)
+CURRENCY_SYMBOLS = ("$", "€", "£", "¥", "₹", "₩", "₽", "₺", "₪", "₱", "₫", "₴", "₦", "฿", "R$",
+                    "A$", "C$", "NZ$", "HK$", "S$", "kr", "zł", "Kč", "Fr", "CHF")
+_CODE = re.compile(r"[A-Z]{3}")
+
+
+@dataclass(frozen=True)
+class Currency:
+    """An ISO 4217 code ("USD", shown "USD 12.50") or a symbol ("$", shown "$12.50")."""
+
+    label: str
+    is_code: bool
+
+    def format(self, amount: float) -> str:
+        """Two decimals with the code or symbol: "USD 1,234.50", "$1,234.50"."""
+        sign = "-" if amount < 0 else ""
+        text = f"{abs(round(amount, 2)):,.2f}"
+        if self.is_code:
+            return f"{sign}{self.label} {text}"
+        return f"{sign}{self.label}{text}"
+
+
+def format_money(amount: float | None, currency: Currency | None) -> str:
+    """An amount in its currency ("USD 1,234.50"), "1,234.50" without one, "-" for none."""
+    if amount is None:
+        return "-"
+    return currency.format(amount) if currency is not None else f"{amount:,.2f}"
+
+
+def parse_currency(value: object, field: str) -> Currency:
+    """A currency: a three-letter ISO 4217 code such as "USD", "EUR", "GBP", or a symbol."""
+    if isinstance(value, str):
+        text = value.strip()
+        if _CODE.fullmatch(text):
+            return Currency(text, True)
+        if text in CURRENCY_SYMBOLS:
+            return Currency(text, False)
+        if _CODE.fullmatch(text.upper()):
+            raise DesignError(f"write the currency code in capitals, e.g. {text.upper()!r}",
+                              field=field, value=value)
+    raise DesignError('unknown currency format: give a three-letter code such as "USD", "EUR" '
+                      f'or "GBP", or one of the symbols {" ".join(CURRENCY_SYMBOLS)}',
+                      field=field, value=value)
+
+
+# -- mass and power ---------------------------------------------------------------
+_MASS_UNITS = {"kg": 1.0, "g": 1e-3, "lb": LB_KG, "lbs": LB_KG, "oz": OZ_KG}
+_MASS = re.compile(r"\s*(?P<num>(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(?P<unit>[a-zA-Z]+)\s*")
+
+
+def parse_mass(value: object, field: str) -> float:
+    """A mass with its unit ("45 g", "0.2 kg", "1.5 oz", "2 lb") in kilograms; zero allowed."""
+    if isinstance(value, str):
+        m = _MASS.fullmatch(value)
+        if m:
+            unit = m.group("unit").lower()
+            if unit not in _MASS_UNITS:
+                raise DesignError(f"unknown mass unit {m.group('unit')!r}: use g, kg, oz or lb",
+                                  field=field, value=value)
+            kg = float(m.group("num")) * _MASS_UNITS[unit]
+            if math.isfinite(kg):
+                return kg
+    raise DesignError('expected a mass with its unit, e.g. "45 g", "0.2 kg", "1.5 oz" or '
+                      '"2 lb"', field=field, value=value)
+
+
+_POWER = re.compile(r"\s*((?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*(mW|W|kW)\s*")
+
+
+def parse_power(text: object, field: str) -> float:
+    """"50 W", "1.5 kW", "500 mW" -> watts."""
+    m = _POWER.fullmatch(text) if isinstance(text, str) else None
+    if not m:
+        raise DesignError('expected a power with its unit, e.g. "50 W" or "1.5 kW"', field=field,
+                          value=text)
+    value = float(m.group(1)) * {"mW": 1e-3, "W": 1.0, "kW": 1e3}[m.group(2)]
+    if not math.isfinite(value) or value <= 0:
+        raise DesignError("must be a positive power", field=field, value=text)
+    return value
+
+
+def format_drawing_length(mm: float, unit: LengthUnit) -> str:
+    """A length for a drawing's notes, in the drawing's unit first, to 0.001 in or
+    0.01 mm: `1.250 in (31.75 mm)`, `31.75 mm (1.250 in)`."""
+    if unit == "in":
+        return f"{mm / IN:.3f} in ({mm:.2f} mm)"
+    return f"{mm:.2f} mm ({mm / IN:.3f} in)"
+
+
+def wrap_words(text: str, width: int) -> list[str]:
+    """Words of `text` in lines of at most `width` characters (a longer word stands alone)."""
+    lines: list[str] = []
+    cur = ""
+    for w in text.split(" "):
+        if cur and len(cur) + 1 + len(w) > width:
+            lines.append(cur)
+            cur = w
+        else:
+            cur = f"{cur} {w}" if cur else w
+    if cur:
+        lines.append(cur)
+    return lines

@@ -153,7 +153,7 @@ def em_wires():
 @pytest.fixture(scope="session")
 def example_plan():
     """The bundled example's Plan, made once per test session (read only)."""
-    from fabplan.design import load_design
+    from fabplan.design.read import load_design
     from fabplan.plan import make_plan
 
     return make_plan(load_design(EXAMPLE))

@@ -21,8 +21,9 @@ __all__ = ["COMMANDS", "estimate", "compare"]
 @guarded
 def estimate(design: Path, as_json: bool, csv_path: Path | None, force: bool) -> None:
     """Print the bill of material, the stock to buy and the cutting plan."""
-    from fabplan.estimate.report import estimate_json, estimate_text, order_csv
-    from fabplan.render.files import check_writable, write_text
+    from ..render.csv import order_csv
+    from ..render.estimate import estimate_json, estimate_text
+    from ..render.files import check_writable, write_text
 
     if csv_path is not None:
         check_writable(csv_path, force, field="--csv")
@@ -42,7 +43,7 @@ def estimate(design: Path, as_json: bool, csv_path: Path | None, force: bool) ->
 @guarded
 def compare(design_a: Path, design_b: Path, as_json: bool) -> None:
     """Compare two designs' stock choices side by side: weight, cost, findings."""
-    from fabplan.estimate.report import compare_json, compare_text
+    from ..render.estimate import compare_json, compare_text
 
     a, b = load_plan(design_a), load_plan(design_b)
     click.echo(compare_json(a, b) if as_json else compare_text(a, b), nl=False)

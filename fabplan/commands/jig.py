@@ -1,9 +1,8 @@
 """`fabplan jig`: full-size jig drawings (DXF and SVG), one file per machine bed.
 
-`write_jig_files(plan, settings, out_dir, formats, force)` does the same work
-as a function (the build command calls it); it lives in
-`fabplan.render.jigfiles` and is re-exported here. shapely and ezdxf load
-inside the functions.
+The jig is a stage of the Plan: the command-line options change the design's
+`[jig]` settings before the plan is made, so `check`, `plan`, `build` and
+`jig` report the same findings. shapely and ezdxf load inside the functions.
 """
 
 from __future__ import annotations
@@ -12,10 +11,9 @@ from pathlib import Path
 
 import click
 
-from .base import EXIT_FINDINGS, design_argument, guarded, load_plan
-from ..render.jigfiles import FORMATS, parse_formats, write_jig, write_jig_files
+from .base import design_argument, guarded, load_design_file, refuse_errors, with_errors_option
 
-__all__ = ["COMMANDS", "FORMATS", "write_jig_files", "jig"]
+__all__ = ["COMMANDS", "jig"]
 
 
 @click.command("jig")
@@ -29,24 +27,33 @@ __all__ = ["COMMANDS", "FORMATS", "write_jig_files", "jig"]
 @click.option("--kerf", help='Cut width, e.g. "0.2 mm" (outlines grow, holes shrink by half).')
 @click.option("--units", help="Drawing unit of the DXF: mm or in.")
 @click.option("--force", is_flag=True, help="Replace existing files.")
+@with_errors_option
 @guarded
 def jig(design: Path, out_dir: Path, fmt: str, bed: str | None, kerf: str | None,
-        units: str | None, force: bool) -> None:
+        units: str | None, force: bool, with_errors: bool) -> None:
     """Write full-size jig drawings (DXF, SVG), one file per machine bed."""
-    from ..jig.settings import JigSettings, with_options
+    import dataclasses
+    import sys
+
+    from ..design.jig import JigSettings, with_options
+    from ..plan import make_plan
+    from ..render.files import write_set
+    from ..render.jig import jig_files, parse_formats
 
     formats = parse_formats(fmt)
     with_options(JigSettings(), bed=bed, kerf=kerf, units=units)  # bad options fail first
-    plan = load_plan(design)
-    settings = with_options(plan.design.jig or JigSettings(), bed=bed, kerf=kerf, units=units)
-    layout, paths = write_jig(plan, settings, out_dir, formats, force)
-    for p in paths:
-        click.echo(f"wrote {p}")
-    for f in layout.findings:
-        click.echo(f"{f.severity}: [{f.code}] {f.element + ': ' if f.element else ''}"
-                   f"{f.message}")
-    if any(f.severity == "error" for f in layout.findings):
-        raise SystemExit(EXIT_FINDINGS)
+    d = load_design_file(design)
+    settings = with_options(d.jig or JigSettings(), bed=bed, kerf=kerf, units=units)
+    plan = make_plan(dataclasses.replace(d, jig=settings))
+    refuse_errors(plan, with_errors)
+    for p in write_set(out_dir, jig_files(plan, formats), force):
+        click.echo(f"wrote {p}", err=True)
+    for f in plan.jig.findings:
+        if f.severity != "error":
+            click.echo(f"{f.severity}: [{f.code}] {f.element + ': ' if f.element else ''}"
+                       f"{f.message}", err=True)
+    if plan.has_errors:
+        sys.exit(1)
 
 
 COMMANDS = [jig]

@@ -56,7 +56,7 @@ class SegmentSet:
     def count(self) -> int:
         return len(self.length)
 
-    def mirrored(self, z0: float) -> "SegmentSet":
+    def mirrored(self, z0: float) -> SegmentSet:
         """The image segments in the plane z = z0 (same start/end order)."""
         s = self.start.copy()
         s[:, 2] = 2 * z0 - s[:, 2]

@@ -21,8 +21,9 @@ from __future__ import annotations
 
 import logging
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import TYPE_CHECKING, Sequence
+from typing import TYPE_CHECKING
 
 import numpy as np
 
@@ -91,7 +92,7 @@ class _OneBlasThread:
             cls._libs = libs
         return cls._libs
 
-    def __enter__(self) -> "_OneBlasThread":
+    def __enter__(self) -> _OneBlasThread:
         self._saved = []
         for getter, setter in self._find():
             n = int(getter())
@@ -561,7 +562,7 @@ def wire_model(nodes_mm: np.ndarray, radius_mm: float | np.ndarray, *, closed: b
                      max_unknowns)
 
 
-def path_model(path: "BendPath", radius_mm: float, *, f_max_hz: float,
+def path_model(path: BendPath, radius_mm: float, *, f_max_hz: float,
                resistivity_ohm_m: float | None = None, tube_wall_mm: float | None = None,
                ground_z_mm: float | None = None, seg_per_wavelength: float = 20.0,
                min_seg_per_180: int = 8, max_unknowns: int = DEFAULT_MAX_UNKNOWNS) -> WireModel:

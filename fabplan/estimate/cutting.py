@@ -32,8 +32,8 @@ from __future__ import annotations
 import bisect
 import itertools
 import math
+from collections.abc import Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
 __all__ = ["StockOption", "Packing", "pack", "pieces_per_stock", "remnant_mm",
            "lower_bound_pieces", "cover_bound", "EXACT_ITEMS", "NODE_LIMIT"]

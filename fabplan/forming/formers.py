@@ -18,38 +18,9 @@ from collections.abc import Sequence
 import numpy as np
 
 from ..geometry.path import Arc3, Bend, BendPath, Straight, neutral_radius
-from .model import Former, JigMark
+from .records import Former, JigMark
 
-__all__ = ["point_at", "formers", "jig_marks", "spacing", "end_shift"]
-
-
-def point_at(path: BendPath, depth_mm: float, k_factor: float,
-             s_mm: float) -> tuple[np.ndarray, np.ndarray]:
-    """Centreline point and unit tangent (3D) at `s_mm` along the neutral axis from end A."""
-    s = 0.0
-    prims = path.primitives()
-    for piece, prim in zip(path.pieces, prims):
-        if isinstance(piece, Straight):
-            length = piece.length_mm
-            if s_mm <= s + length + 1e-9 or prim is prims[-1]:
-                t = np.subtract(prim.end, prim.start) / max(prim.length, 1e-12)
-                u = min(max(s_mm - s, 0.0), length)
-                return np.asarray(prim.start) + t * u, t
-        else:
-            rn = neutral_radius(piece.radius_mm, depth_mm, k_factor)
-            length = math.radians(piece.angle_deg) * math.hypot(rn, piece.pitch_mm /
-                                                               (2 * math.pi))
-            if s_mm <= s + length + 1e-9 or prim is prims[-1]:
-                phi = prim.angle * min(max((s_mm - s) / length, 0.0), 1.0)
-                return prim.point(phi), _arc_tangent(prim, phi)
-        s += length
-    return np.asarray(path.origin, dtype=float), np.asarray(path.heading, dtype=float)
-
-
-def _arc_tangent(a: Arc3, phi: float) -> np.ndarray:
-    d = a.radius * (-math.sin(phi) * np.asarray(a.u) + math.cos(phi) * np.asarray(a.v)) \
-        + a.pitch / (2 * math.pi) * np.asarray(a.axis)
-    return d / float(np.linalg.norm(d))
+__all__ = ["formers", "jig_marks", "spacing", "end_shift"]
 
 
 def _xy(v: np.ndarray) -> tuple[float, float]:
@@ -96,7 +67,7 @@ def jig_marks(path: BendPath, rows: Sequence, depth_mm: float, k_factor: float,
 
     `centre_mm`: the stock's centre along the neutral axis from end A (no trim)."""
     marks = []
-    p, t = point_at(path, depth_mm, k_factor, centre_mm)
+    p, t = path.point_at(centre_mm, depth_mm, k_factor)
     marks.append(JigMark("centre of stock", "centre", _xy(p), _xy(t)))
     if path.gap_mm is not None:
         marks.append(JigMark("feed gap, end A", "gap", _xy(np.asarray(path.origin)),
@@ -105,9 +76,9 @@ def jig_marks(path: BendPath, rows: Sequence, depth_mm: float, k_factor: float,
                              _xy(path.end_tangent())))
     for row, arc in zip(rows, _arcs(path)):
         marks.append(JigMark(f"bend {row.index} start", "bend-start",
-                             _xy(np.asarray(row.start_point)), _xy(_arc_tangent(arc, 0.0))))
+                             _xy(np.asarray(row.start_point)), _xy(arc.tangent(0.0))))
         marks.append(JigMark(f"bend {row.index} end", "bend-end",
-                             _xy(np.asarray(row.end_point)), _xy(_arc_tangent(arc, arc.angle))))
+                             _xy(np.asarray(row.end_point)), _xy(arc.tangent(arc.angle))))
     return marks
 
 
@@ -130,8 +101,8 @@ def end_shift(path: BendPath, released: Sequence[tuple[float, float] | None],
         else:
             pieces.append(piece)
     other = BendPath(tuple(pieces), path.origin, path.heading, path.normal, path.gap_mm)
-    p0, t0 = point_at(path, depth_mm, k_factor, centre_mm)
-    p1, t1 = point_at(other, depth_mm, k_factor, centre_mm)
+    p0, t0 = path.point_at(centre_mm, depth_mm, k_factor)
+    p1, t1 = other.point_at(centre_mm, depth_mm, k_factor)
     # planar rigid motion taking the other path's centre point and tangent onto the drawing's
     rot = math.atan2(t0[1], t0[0]) - math.atan2(t1[1], t1[0])
     c, s = math.cos(rot), math.sin(rot)

@@ -25,9 +25,9 @@ from functools import lru_cache
 
 from ..errors import Finding
 from ..stock.materials import Material
-from ..stock.profiles import Profile, Round, Strip, Tube
+from ..stock.profiles import Profile, Round, Tube
 from ..units import IN
-from .model import BendLimits
+from .records import BendLimits
 
 __all__ = ["RadiusRule", "minimum_radius", "bend_limits", "limit_findings", "bend_list",
            "CTH_MIN_RADIUS_IN", "TUBE_RULES", "ROUND_RULES", "STRIP_RULES",

@@ -22,7 +22,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from .model import ToolMark
+from .records import ToolMark
 
 __all__ = ["BendSite", "setback", "gain", "bend_order", "grip_available", "tool_marks",
            "corner_legs", "starts_from_legs"]

@@ -31,10 +31,10 @@ from __future__ import annotations
 import math
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Literal
 
 import numpy as np
 
+from ..design.forming import MODELS, Model
 from ..errors import DesignError
 from ..stock.materials import Material
 from ..stock.profiles import Profile, Round, Strip, Tube
@@ -42,8 +42,6 @@ from ..stock.profiles import Profile, Round, Strip, Tube
 __all__ = ["FlowLaw", "SectionModel", "section_model", "law_for", "BendState",
            "held_for_final", "final_for_held", "calibrate_scale", "Model", "MODELS"]
 
-Model = Literal["hardening", "elastic-plastic"]
-MODELS: tuple[Model, ...] = ("hardening", "elastic-plastic")
 
 # Gauss-Legendre nodes and weights on [-1, 1]; every sub-interval of the
 # section integral is smooth, so a fixed rule of this order is exact to
@@ -82,7 +80,7 @@ class FlowLaw:
     n: float = 0.0
     hardening: bool = False
 
-    def scaled(self, factor: float) -> "FlowLaw":
+    def scaled(self, factor: float) -> FlowLaw:
         """The same law with every flow stress times `factor` (E unchanged)."""
         return FlowLaw(self.youngs_mpa, self.yield_mpa * factor, self.k_mpa * factor, self.n,
                        self.hardening)

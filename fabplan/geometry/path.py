@@ -19,7 +19,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
-from typing import Union
+from typing import cast
 
 import numpy as np
 
@@ -51,7 +51,7 @@ class Bend:
     pitch_mm: float = 0.0
 
 
-Piece = Union[Straight, Bend]
+Piece = Straight | Bend
 
 
 def neutral_radius(centreline_radius_mm: float, depth_mm: float, k_factor: float) -> float:
@@ -108,6 +108,13 @@ class Arc3:
                 + np.sin(phi) * np.asarray(self.v))
                 + self.pitch * phi / (2 * math.pi) * np.asarray(self.axis))
 
+    def tangent(self, phi: float) -> np.ndarray:
+        """The unit tangent at angle `phi` (rad) along the arc."""
+        u, v = np.asarray(self.u), np.asarray(self.v)
+        d = (self.radius * (-math.sin(phi) * u + math.cos(phi) * v)
+             + self.pitch / (2 * math.pi) * np.asarray(self.axis))
+        return d / float(np.linalg.norm(d))
+
     @property
     def start(self) -> np.ndarray:
         return self.point(0.0)
@@ -117,7 +124,7 @@ class Arc3:
         return self.point(self.angle)
 
 
-Primitive = Union[Line3, Arc3]
+Primitive = Line3 | Arc3
 
 
 @dataclass(frozen=True)
@@ -260,11 +267,35 @@ class BendPath:
         last = prims[-1]
         if isinstance(last, Line3):
             return _unit(np.subtract(last.end, last.start))
-        a = last
-        th = a.angle
-        d = a.radius * (-math.sin(th) * np.asarray(a.u) + math.cos(th) * np.asarray(a.v)) \
-            + a.pitch / (2 * math.pi) * np.asarray(a.axis)
-        return _unit(d)
+        return last.tangent(last.angle)
+
+    def point_at(self, s_mm: float, depth_mm: float = 0.0,
+                 k_factor: float = 0.5) -> tuple[np.ndarray, np.ndarray]:
+        """The centreline point and unit tangent (3D) at `s_mm` along the stock's
+        neutral axis from end A (for a section `depth_mm` deep bent with
+        `k_factor`; the defaults measure along the centreline). A bend's share
+        of the stock maps onto its arc in proportion to the angle; `s_mm`
+        outside the stock is held at its ends."""
+        s = 0.0
+        prims = self.primitives()
+        for piece, prim in zip(self.pieces, prims):
+            last = prim is prims[-1]
+            if isinstance(piece, Straight):
+                length = piece.length_mm
+                if s_mm <= s + length + 1e-9 or last:
+                    t = np.subtract(prim.end, prim.start) / max(prim.length, 1e-12)
+                    u = min(max(s_mm - s, 0.0), length)
+                    return np.asarray(prim.start) + t * u, t
+            else:
+                arc = cast(Arc3, prim)  # a bend's primitive is its arc
+                rn = neutral_radius(piece.radius_mm, depth_mm, k_factor)
+                length = self.piece_length(piece, rn)
+                if s_mm <= s + length + 1e-9 or last:
+                    phi = arc.angle * (min(max((s_mm - s) / length, 0.0), 1.0)
+                                       if length > 0 else 0.0)
+                    return arc.point(phi), arc.tangent(phi)
+            s += length
+        return np.asarray(self.origin, dtype=float), _unit(np.asarray(self.heading, dtype=float))
 
     def sample(self, step_mm: float) -> tuple[np.ndarray, np.ndarray]:
         """Points on the centreline no further apart than `step_mm`, and their
@@ -335,7 +366,7 @@ class BendPath:
             out.append((a, b, dist))
         return out
 
-    def scaled(self, factor: float) -> "BendPath":
+    def scaled(self, factor: float) -> BendPath:
         """Every length times `factor` (angles kept)."""
         pieces = tuple(Straight(p.length_mm * factor) if isinstance(p, Straight)
                        else Bend(p.radius_mm * factor, p.angle_deg, p.rotation_deg,

@@ -12,7 +12,7 @@ from __future__ import annotations
 import io
 import math
 
-from ..jig.layout import Bed, JigLayout
+from ..jig.records import Bed, JigLayout
 from ..jig.shapes import Arc, Circle, Contour, Line, RefPoint, Text
 from ..units import IN
 

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from xml.sax.saxutils import escape, quoteattr
 
-from ..jig.layout import Bed, JigLayout
+from ..jig.records import Bed, JigLayout
 from ..jig.shapes import Arc, Circle, Contour, Line, RefPoint, Text
 
 __all__ = ["COLOURS", "HAIRLINE_MM", "bed_to_svg"]

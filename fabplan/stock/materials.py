@@ -44,7 +44,7 @@ class Material:
         """Conductivity in % IACS (172.41 / resistivity in micro-ohm cm)."""
         return 172.41 / (self.resistivity_ohm_m * 1e8)
 
-    def overridden(self, **changes: float) -> "Material":
+    def overridden(self, **changes: float) -> Material:
         """A copy with some properties replaced (design-file overrides)."""
         if not changes:
             return self

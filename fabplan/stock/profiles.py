@@ -10,7 +10,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Literal, Union
+from typing import Literal
 
 from ..errors import DesignError
 from ..units import IN
@@ -145,7 +145,7 @@ class Strip:
         return f"strip {self.width_mm:.2f} x {self.thickness_mm:.2f} mm"
 
 
-Profile = Union[Round, Tube, Strip]
+Profile = Round | Tube | Strip
 
 
 def awg_diameter_mm(gauge: int) -> float:

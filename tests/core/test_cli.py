@@ -31,7 +31,7 @@ def test_plan_json_fields(run_cli, example_path):
     assert isinstance(data["findings"], list)
     # common practice, no source: 2 x side + pi x centre spacing - gap, with the
     # example's own dimensions
-    from fabplan.design import load_design
+    from fabplan.design.read import load_design
 
     p = load_design(example_path).elements[0].params
     assert (p.length_kind, p.spacing_kind) == ("side", "centre_spacing")

@@ -6,7 +6,7 @@ import math
 
 import pytest
 
-from fabplan.design import parse_design
+from fabplan.design.read import parse_design
 from fabplan.errors import DesignError
 from fabplan.plan import make_plan
 
@@ -47,7 +47,8 @@ def test_minimal_design_reads():
      'side = "900 mm"\nspacing = "50 mm"\nquantity = 2.5', "",
      r"element\[1\]\.quantity = 2\.5: expected a whole number"),
     ('diameter = "4 mm"\nmaterial = "cu-c11000-annealed"',
-     'side = "900 mm"\nspacing = "50 mm"\nquantity = 0', "", r"element\[1\]\.quantity = 0: must be at least 1"),
+     'side = "900 mm"\nspacing = "50 mm"\nquantity = 0', "",
+     r"element\[1\]\.quantity = 0: must be at least 1"),
     ('diameter = "4 mm"\nmaterial = "cu-c11000-annealed"',
      'side = "900 mm"\ninside_length = "950 mm"\nspacing = "50 mm"', "", "give only one of"),
     ('diameter = "4 mm"\nmaterial = "cu-c11000-annealed"', 'spacing = "50 mm"', "",

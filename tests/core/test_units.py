@@ -9,8 +9,7 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from fabplan.errors import DesignError
-from fabplan.units import (format_inches, format_length, format_mm, parse_frequency,
-                           parse_length)
+from fabplan.units import format_inches, format_length, format_mm, parse_frequency, parse_length
 
 # 1 in = 25.4 mm exactly (source: international yard and pound agreement, 1959)
 # 35 1/4 in = 895.35 mm; 0.8946 m = 894.6 mm

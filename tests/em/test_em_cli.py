@@ -7,10 +7,11 @@ import math
 
 import pytest
 
-from fabplan.design import parse_design
-from fabplan.em.config import MAX_SWEEP_POINTS, parse_power
-from fabplan.em.matching import CoaxBalun, Direct, Transformer
+from fabplan.design.electrical import MAX_SWEEP_POINTS
+from fabplan.design.read import parse_design
 from fabplan.errors import DesignError
+from fabplan.feed import CoaxBalun, Direct, Transformer
+from fabplan.units import parse_power
 
 HEAD = """
 [project]
@@ -198,7 +199,7 @@ def test_the_templates_commented_electrical_table_is_valid():
 
 # -- end to end, with the real method-of-moments solver -------------------------------------------
 def test_tune_writes_a_design_whose_least_swr_is_on_target(run_cli, write_design, tmp_path):
-    from fabplan.design import load_design
+    from fabplan.design.read import load_design
     from fabplan.plan import make_plan
 
     p = write_design(text())
@@ -221,9 +222,9 @@ def test_sweep_prints_the_figures_and_writes_every_point(run_cli, write_design, 
     import csv
     import dataclasses
 
-    from fabplan.design import load_design
-    from fabplan.em import planning
-    from fabplan.plan import make_plan
+    from fabplan.design.read import load_design
+    from fabplan.em.stage import check_element
+    from fabplan.plan import electrical_input, make_plan
 
     p = write_design(text())
     out = tmp_path / "sweep.csv"
@@ -240,7 +241,8 @@ def test_sweep_prints_the_figures_and_writes_every_point(run_cli, write_design, 
     settings = dataclasses.replace(d.electrical, sweep_from_hz=400e6, sweep_to_hz=440e6,
                                    sweep_step_hz=2e6)
     plan = make_plan(dataclasses.replace(d, electrical=None))
-    ee, _ = planning.check_element(plan, plan.elements[0], settings)
+    e = plan.elements[0]
+    ee, _ = check_element(electrical_input(d, e.spec, e.pieces), settings)
     assert [float(r["r_ohm"]) for r in rows] == pytest.approx([z.real for z in ee.sweep.z_ohm],
                                                               rel=1e-6)
     assert [float(r["swr_system"]) for r in rows] == pytest.approx(list(ee.sweep.swr_system),
@@ -281,8 +283,8 @@ def test_ground_conductor_and_feed_line_reach_the_model():
     free = _plan()
     ground = _plan('ground = "perfect"\nground_height = "170 mm"')  # a quarter wave below
     e0, e1 = free.elements[0].electrical, ground.elements[0].electrical
-    assert "perfect ground plane 0.170 m below" in e1.extra["geometry"]
-    assert e1.extra["ground_height_mm"] == 170.0 and e0.extra["ground"] == "free-space"
+    assert "perfect ground plane 0.170 m below" in e1.geometry
+    assert e1.ground_height_mm == 170.0 and e0.ground == "free-space"
     # not a check against a source (the solver's tests do image theory): only that the
     # ground reaches the model and changes the impedance
     i = len(e0.sweep.freq_hz) // 2
@@ -292,10 +294,10 @@ def test_ground_conductor_and_feed_line_reach_the_model():
     perfect = _plan("perfect_conductor = true").elements[0].electrical
     steel = _plan("resistivity = 72e-8").elements[0].electrical
     assert perfect.sweep.efficiency == pytest.approx(1.0, abs=1e-9)
-    assert perfect.extra["resistivity_ohm_m"] is None
+    assert perfect.resistivity_ohm_m is None
     assert steel.sweep.efficiency < e0.sweep.efficiency < 1.0
-    assert e0.extra["resistivity_ohm_m"] == 2.03e-8  # C12200 tube, from the material
-    assert e0.extra["tube_wall_mm"] == pytest.approx(0.030 * 25.4)
+    assert e0.resistivity_ohm_m == 2.03e-8  # C12200 tube, from the material
+    assert e0.tube_wall_mm == pytest.approx(0.030 * 25.4)
     # a lossy feed line lowers the SWR the radio sees
     lossy = _plan("\n[electrical.feed_line]\nlength = \"30 m\"\nimpedance = 50\n"
                   "velocity_factor = 0.66\nloss_db_per_100m = 30\nloss_frequency = \"440 MHz\"\n")

@@ -9,8 +9,17 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from fabplan.em.matching import (C0_M_S, CoaxBalun, Direct, Line, MatchChain, Transformer,
-                                 db_per_m, reflection, swr)
+from fabplan.feed import (
+    C0_M_S,
+    CoaxBalun,
+    Direct,
+    Line,
+    MatchChain,
+    Transformer,
+    db_per_m,
+    reflection,
+    swr,
+)
 
 
 def test_300_ohm_through_4_to_1_is_swr_1_5_in_50_ohm():

@@ -10,9 +10,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from scipy.optimize import brentq
 
-from fabplan.errors import FabplanError
 from fabplan.em.mesh import arc_polygon, graded_straight, mesh_path
 from fabplan.em.solver import C0, path_model, wire_model
+from fabplan.errors import FabplanError
 from fabplan.geometry.path import Arc3, Bend, BendPath, Straight
 from fabplan.geometry.shapes import folded_dipole as fd
 
@@ -95,7 +95,7 @@ def test_folded_dipole_resonance_converges_with_the_gap_fixed():
     res = []
     for spw in (20.0, 40.0):
         model = path_model(path, 1.0, f_max_hz=470e6, seg_per_wavelength=spw)
-        res.append(brentq(lambda f: model.impedance(f).imag, 390e6, 450e6, xtol=1.0))
+        res.append(brentq(lambda f, m=model: m.impedance(f).imag, 390e6, 450e6, xtol=1.0))
     assert abs(res[1] / res[0] - 1) < 5e-4
     # and it is a folded dipole: about 4 x 73 ohm at resonance (Balanis, sec. 9.5), within 10 %
     assert model.impedance(res[1]).real == pytest.approx(4 * 73, rel=0.1)

@@ -11,18 +11,16 @@ from __future__ import annotations
 
 import dataclasses
 import math
-import tomllib
 from types import SimpleNamespace
 
 import numpy as np
 import pytest
-from hypothesis import given, settings
-from hypothesis import strategies as st
 
-from fabplan.design import parse_design
-from fabplan.em import planning, tuning
-from fabplan.em.matching import C0_M_S, MatchChain, Transformer
-from fabplan.errors import DesignError
+from fabplan import tuning
+from fabplan.design.read import parse_design
+from fabplan.em import stage
+from fabplan.em.sweep import analyse
+from fabplan.feed import C0_M_S, MatchChain, Transformer
 from fabplan.plan import make_plan
 
 X0 = 600.0  # reactance slope of the stand-in (ohm)
@@ -54,9 +52,17 @@ def total_length(path) -> float:
     return path.centreline_length() + path.gap_mm
 
 
-def rlc_factory(plan, element, settings, f_max_hz, params=None):
-    path, _ = planning.element_path(plan, element, params)
+def rlc_factory(element, settings, f_max_hz, params=None):
+    path, _ = stage.element_path(element, params)
     return RLC(total_length(path))
+
+
+def model_input(plan, e=None):
+    """The electrical stage's input for the plan's first element (or `e`)."""
+    from fabplan.plan import electrical_input
+
+    e = e or plan.elements[0]
+    return electrical_input(plan.design, e.spec, e.pieces)
 
 
 DESIGN = """
@@ -104,7 +110,7 @@ def test_analyse_finds_least_swr_resonance_and_bandwidth_of_a_series_rlc():
     chain = MatchChain(200.0, 50.0, Transformer(4.0))
     f0 = model.f0
     freqs = np.linspace(0.8 * f0, 1.2 * f0, 401)
-    result, extra = planning.analyse(model, chain, freqs)
+    result, edges, at_edge = analyse(model, chain, freqs)
     assert result.min_swr_hz == pytest.approx(f0, rel=1e-5)
     assert result.min_swr == pytest.approx(1.0, abs=1e-6)
     assert result.resonance_hz == pytest.approx(f0, rel=1e-7)
@@ -115,17 +121,17 @@ def test_analyse_finds_least_swr_resonance_and_bandwidth_of_a_series_rlc():
     assert result.bandwidth_hz["2"] == pytest.approx(f0 * x2 / X0, rel=2e-3)
     x15 = 4 * 100 * 0.2 / math.sqrt(1 - 0.04)  # |Gamma| = 0.2 at SWR 1.5
     assert result.bandwidth_hz["1.5"] == pytest.approx(f0 * x15 / X0, rel=2e-3)
-    lo, hi = extra["bandwidth_edges_hz"]["2"]
+    lo, hi = edges["2"]
     assert lo < f0 < hi
-    assert not extra["least_swr_at_sweep_end"]
+    assert not at_edge
 
 
 def test_analyse_flags_least_swr_at_the_end_of_the_sweep():
     model = RLC(2000.0)
     chain = MatchChain(200.0, 50.0, Transformer(4.0))
     freqs = np.linspace(0.8 * model.f0, 0.95 * model.f0, 31)
-    result, extra = planning.analyse(model, chain, freqs)
-    assert extra["least_swr_at_sweep_end"]
+    result, edges, at_edge = analyse(model, chain, freqs)
+    assert at_edge
     assert result.min_swr_hz == freqs[-1]
     assert result.resonance_hz is None
     assert result.bandwidth_hz == {"1.5": None, "2": None}
@@ -138,64 +144,69 @@ def test_a_broad_shallow_minimum_is_pointed_out(x0, broad):
     model = RLC(2000.0, x0_ohm=x0)
     chain = MatchChain(200.0, 50.0, Transformer(4.0))
     freqs = np.linspace(0.9 * model.f0, 1.1 * model.f0, 81)
-    result, extra = planning.analyse(model, chain, freqs)
+    result, edges, at_edge = analyse(model, chain, freqs)
     settings = SimpleNamespace(target_hz=None)
-    codes = [f.code for f in planning._findings("x", settings, result, extra)]
+    codes = [f.code for f in stage._findings("x", settings, result, at_edge)]
     assert ("em-broad-swr-minimum" in codes) == broad
 
 
 # -- the stage with a stand-in model ---------------------------------------------------
-def test_planning_stage_fills_every_fed_element_and_the_plan():
+def test_electrical_stage_checks_every_fed_element_and_the_plan():
+    from fabplan.render.json import sweep_dict
+    from fabplan.render.text import electrical_text, plan_electrical_text
+
     text, d = design()
-    plan = planning.apply(core_plan(d), settings=d.electrical, factory=rlc_factory)
-    e = plan.elements[0]
-    assert e.electrical is not None and plan.electrical is not None
-    f0 = rlc_factory(plan, e, d.electrical, 0).f0
-    assert e.electrical.sweep.min_swr_hz == pytest.approx(f0, rel=1e-5)
-    codes = {f.code for f in plan.findings}
+    plan = core_plan(d)
+    [checked], plan_el, findings = stage.electrical([model_input(plan)], d.electrical,
+                                                    factory=rlc_factory)
+    assert checked is not None and plan_el is not None
+    f0 = rlc_factory(model_input(plan), d.electrical, 0).f0
+    assert checked.sweep.min_swr_hz == pytest.approx(f0, rel=1e-5)
+    codes = {f.code for f in findings}
     off = abs(f0 / 146e6 - 1)
     assert ("em-off-target" in codes) == (off > 0.005)
-    out: dict = {}
-    e.electrical.extend_json(out)
-    assert out["electrical"]["min_swr_hz"] == pytest.approx(f0, rel=1e-5)
-    assert len(out["electrical"]["points"]) == 81
-    txt = e.electrical.text("mm", 32)
+    out = sweep_dict(checked.sweep)
+    assert out["min_swr_hz"] == pytest.approx(f0, rel=1e-5)
+    assert len(out["points"]) == 81
+    txt = electrical_text(checked)
     assert "least SWR" in txt and "+- " in txt and "(0.5 %)" in txt
-    ptxt = plan.electrical.text("mm", 32)
+    ptxt = plan_electrical_text(plan_el, "mm", 32)
     assert "RF exposure" in ptxt and "surroundings" in ptxt and "+-0.5 %" in ptxt
 
 
 def test_a_model_that_breaks_its_limits_becomes_a_finding():
     from fabplan.errors import FabplanError
 
-    def refusing(plan, element, settings, f_max_hz, params=None):
+    def refusing(element, settings, f_max_hz, params=None):
         raise FabplanError("the wire is too thick", field="radius_mm", value=99)
 
     text, d = design()
-    plan = planning.apply(core_plan(d), settings=d.electrical, factory=refusing)
-    assert plan.elements[0].electrical is None
-    [f] = [f for f in plan.findings if f.code == "em-model-limits"]
+    plan = core_plan(d)
+    [checked], _, findings = stage.electrical([model_input(plan)], d.electrical,
+                                              factory=refusing)
+    assert checked is None
+    [f] = [f for f in findings if f.code == "em-model-limits"]
     assert "too thick" in f.message and f.severity == "warning" and f.element == "fd"
 
 
 def test_released_radii_replace_the_design_radii():
-    from fabplan.forming.model import BendForming, ElementForming
+    from fabplan.forming.records import BendForming, ElementForming
 
     text, d = design()
     plan = core_plan(d)
-    e = dataclasses.replace(plan.elements[0], forming=None)
+    e = dataclasses.replace(model_input(plan), forming=None)
     bends = tuple(BendForming(i, "former", 18.0, 20.0, 185.0, 5.0, 21.5, 180.0, 0.1)
                   for i in (1, 2))
     e2 = dataclasses.replace(e, forming=ElementForming(bends))
-    path, released = planning.element_path(plan, e2)
+    path, released = stage.element_path(e2)
     assert released and [b.radius_mm for b in path.bends] == [21.5, 21.5]
-    assert [b.radius_mm for b in e.path.bends] == [20.0, 20.0]
-    plain, released = planning.element_path(plan, e)
-    assert not released and plain is e.path
+    assert [b.radius_mm for b in e.piece.path.bends] == [20.0, 20.0]
+    plain, released = stage.element_path(e)
+    assert not released and plain is e.piece.path
 
 
 def test_released_radii_follow_a_tuned_loop():
-    from fabplan.forming.model import BendForming, ElementForming
+    from fabplan.forming.records import BendForming, ElementForming
 
     d = parse_design("""[stock]
 diameter = "3 mm"
@@ -207,12 +218,11 @@ diameter = "680 mm"
 feed_gap = "15 mm"
 """)
     plan = core_plan(d)
-    e = plan.elements[0]
     bend = BendForming(1, "former", 300.0, 330.0, 340.0, 10.0, 340.0 * 1.02, 340.0, 0.01)
-    e = dataclasses.replace(e, forming=ElementForming((bend,)))
+    e = dataclasses.replace(model_input(plan), forming=ElementForming((bend,)))
     spec = tuning.SHAPES["circle-loop"]
     bigger = spec.with_governing(e.spec.params, math.pi * 700.0)
-    path, released = planning.element_path(plan, e, bigger)
+    path, released = stage.element_path(e, bigger)
     # the loop's radius is the tuned length: it keeps the element's final/design ratio
     assert released and path.bends[0].radius_mm == pytest.approx(350.0 * 1.02)
 
@@ -227,7 +237,7 @@ def test_tune_finds_the_exact_length_for_the_stand_in(tune_for):
     r = tuning.tune(plan, e, d.electrical, target, tune_for=tune_for, factory=rlc_factory)
     # closed form: total length K c / f; a folded dipole's total (2 x side + the ends + the
     # gap) changes by twice the change in side
-    old_total = total_length(e.path)
+    old_total = total_length(e.piece.path)
     need = K * C0_M_S / target * 1000
     assert r.new_value_mm == pytest.approx(950.0 + (need - old_total) / 2, abs=0.01)
     assert r.new_hz == pytest.approx(target, rel=1e-4)
@@ -267,10 +277,10 @@ def test_measured_mode_on_a_synthetic_case():
     text, d = design()
     plan = core_plan(d)
     e = plan.elements[0]
-    measured = rlc_factory(plan, e, d.electrical, 0).f0
+    measured = rlc_factory(model_input(plan), d.electrical, 0).f0
     side_star = 950.0 * 1.01
     params = tuning.SHAPES[e.spec.shape].with_governing(e.spec.params, side_star)
-    target = rlc_factory(plan, e, d.electrical, 0, params).f0
+    target = rlc_factory(model_input(plan), d.electrical, 0, params).f0
     r = tuning.from_measurement(plan, e, d.electrical, measured, target, factory=rlc_factory)
     want = side_star - 950.0
     assert r.change_model_mm == pytest.approx(want, rel=0.01)
@@ -285,72 +295,7 @@ def test_measured_far_from_the_model_prefers_the_proportional_rule():
     text, d = design()
     plan = core_plan(d)
     e = plan.elements[0]
-    model_f = rlc_factory(plan, e, d.electrical, 0).f0
+    model_f = rlc_factory(model_input(plan), d.electrical, 0).f0
     r = tuning.from_measurement(plan, e, d.electrical, model_f * 1.06, 146e6,
                                 factory=rlc_factory)
     assert r.trust == "proportional" and "differs from the model" in r.advice
-
-
-# -- rewriting the design ------------------------------------------------------------------
-@pytest.mark.parametrize("units, expect", [("mm", '"937.125 mm"'), ("in", '"36.8947 in"')])
-def test_rewrite_replaces_only_the_governing_value(units, expect):
-    text, d = design(units=units)
-    new_params = dataclasses.replace(d.elements[0].params,
-                                     length_mm=937.125 if units == "mm" else 36.8947 * 25.4)
-    new_text, changes = tuning.rewrite_design(text, d, "fd", new_params)
-    assert list(changes) == ["side"]
-    old_lines, new_lines = text.split("\n"), new_text.split("\n")
-    diff = [(a, b) for a, b in zip(old_lines, new_lines) if a != b]
-    assert len(old_lines) == len(new_lines) and len(diff) == 1
-    assert diff[0][1] == f"side = {expect}"
-    assert "# a comment that must survive" in new_text
-    assert tomllib.loads(new_text)["element"][0]["side"] == expect.strip('"')
-
-
-def test_rewrite_scales_a_loop_given_by_its_sides():
-    text = """[stock]
-diameter = "3 mm"
-material = "cu-c11000-annealed"
-
-[shop]
-units = "mm"
-
-[[element]]
-name = "quad"
-shape = "rect-loop"
-width = "500 mm"   # across
-height = "250 mm"
-corner_radius = "20 mm"
-feed_gap = "10 mm"
-"""
-    d = parse_design(text)
-    spec = tuning.SHAPES["rect-loop"]
-    key, perimeter = spec.governing(d.elements[0].params)
-    assert key == "perimeter" and perimeter == pytest.approx(1500.0)
-    new_params = spec.with_governing(d.elements[0].params, 1530.0)
-    new_text, changes = tuning.rewrite_design(text, d, "quad", new_params)
-    assert changes == {"width": "510.000 mm", "height": "255.000 mm"}
-    assert 'width = "510.000 mm"   # across' in new_text
-
-
-def test_rewrite_refuses_what_it_cannot_find():
-    text = """element = [{ name = "fd", shape = "folded-dipole", side = "900 mm", spacing = "40 mm" }]
-
-[stock]
-diameter = "3 mm"
-material = "cu-c11000-annealed"
-"""
-    d = parse_design(text)
-    p = dataclasses.replace(d.elements[0].params, length_mm=910.0)
-    with pytest.raises(DesignError, match="by hand"):
-        tuning.rewrite_design(text, d, "fd", p)
-
-
-@settings(max_examples=40, deadline=None, derandomize=True)
-@given(side=st.floats(200.0, 3000.0), units=st.sampled_from(["mm", "in"]))
-def test_rewrite_round_trips_any_length(side, units):
-    text, d = design(units=units)
-    p = dataclasses.replace(d.elements[0].params, length_mm=side)
-    new_text, _ = tuning.rewrite_design(text, d, "fd", p)
-    # the design file keeps the length to better than 0.01 mm
-    assert parse_design(new_text).elements[0].params.length_mm == pytest.approx(side, abs=0.01)

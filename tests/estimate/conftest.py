@@ -4,7 +4,7 @@ from __future__ import annotations
 
 import pytest
 
-from fabplan.design import parse_design
+from fabplan.design.read import parse_design
 from fabplan.plan import make_plan
 
 # a hairpin of AWG 12 copper, 100 mm legs, 20 mm inside spacing

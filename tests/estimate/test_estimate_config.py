@@ -4,10 +4,10 @@ from __future__ import annotations
 
 import pytest
 
-from fabplan.design import parse_design
+from fabplan.design.read import parse_design
 from fabplan.errors import DesignError
-from fabplan.estimate.costing import parse_currency
 from fabplan.plan import make_plan
+from fabplan.units import parse_currency
 
 OFFER = """
 [purchase]

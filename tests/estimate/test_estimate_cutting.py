@@ -8,8 +8,14 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from fabplan.estimate.cutting import (StockOption, cover_bound, lower_bound_pieces, pack,
-                                      pieces_per_stock, remnant_mm)
+from fabplan.estimate.cutting import (
+    StockOption,
+    cover_bound,
+    lower_bound_pieces,
+    pack,
+    pieces_per_stock,
+    remnant_mm,
+)
 
 
 def test_pieces_per_stick_and_remnant():

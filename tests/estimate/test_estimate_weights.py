@@ -5,8 +5,8 @@ from __future__ import annotations
 
 import pytest
 
-from fabplan.estimate.costing import LB_KG, parse_mass, piece_cost
-from fabplan.units import FT
+from fabplan.estimate.costing import piece_cost
+from fabplan.units import FT, LB_KG, parse_mass
 
 ONE_10FT = """
 [purchase]

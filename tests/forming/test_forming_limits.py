@@ -4,8 +4,13 @@ from __future__ import annotations
 
 import pytest
 
-from fabplan.forming.limits import (bend_limits, limit_findings, minimum_radius, wall_inside,
-                                    wall_outside)
+from fabplan.forming.limits import (
+    bend_limits,
+    limit_findings,
+    minimum_radius,
+    wall_inside,
+    wall_outside,
+)
 from fabplan.stock.materials import MATERIALS
 from fabplan.units import IN
 

@@ -113,20 +113,21 @@ def test_bender_wide_spacing_gets_square_ends(write_design):
     plan = make_plan(load_design(bender_fd(write_design)))
     e = plan.elements[0]
     assert e.spec.params.end_style == "square"
-    assert len(e.bends) == 4
+    assert len(e.piece.bends) == 4
     codes = [f.code for f in plan.findings]
     assert "square-ends-substituted" in codes
     design = plan.design
     m = section_model(design.stock.profile, law_for(design.stock.material))
     r_out = final_for_held(m, 9 / 16 * IN, 90.0, 6.35).final_radius_mm
-    for b in e.bends:
+    for b in e.piece.bends:
         assert b.centreline_radius_mm == pytest.approx(r_out)
         assert b.angle_deg == 90.0
-        assert e.forming.bend(b.index).former_centreline_radius_mm == pytest.approx(9 / 16 * IN)
+        held = e.piece.forming.bend(b.index).former_centreline_radius_mm
+        assert held == pytest.approx(9 / 16 * IN)
     # the recomputed element still closes on its feed gap
-    assert e.path.closure_error() < 1e-6
-    assert len(e.forming.tool_marks) == 4 and not e.forming.formers
-    from fabplan.render.report import plan_to_text
+    assert e.piece.path.closure_error() < 1e-6
+    assert len(e.piece.forming.tool_marks) == 4 and not e.piece.forming.formers
+    from fabplan.render.text import plan_to_text
 
     text = plan_to_text(plan)
     assert "Bender marks, in bend order" in text and "die radius" in text
@@ -149,19 +150,19 @@ def test_square_ends_can_be_refused(write_design):
 def test_tool_marks_follow_setback_and_gain(write_design):
     plan = make_plan(load_design(bender_fd(write_design)))
     e = plan.elements[0]
-    rows = {b.index: b for b in e.bends}
+    rows = {b.index: b for b in e.piece.bends}
     sites = [BendSite(b.index, b.start_from_end_mm, b.end_from_end_mm, b.angle_deg,
-                      b.centreline_radius_mm, b.neutral_radius_mm, 90.0) for b in e.bends]
+                      b.centreline_radius_mm, b.neutral_radius_mm, 90.0) for b in e.piece.bends]
     legs = corner_legs(sites, e.cut_length_mm)
     # corner to corner legs measured as a builder would, then setback and gain
     starts = starts_from_legs(sites, legs)
     for s, start in zip(sites, starts):
         assert start == pytest.approx(rows[s.index].start_from_end_mm, abs=1e-9)
     # each leg between the two 90s of an end is the link + 2 setbacks
-    r = e.bends[0].centreline_radius_mm
-    assert legs[1] == pytest.approx(e.bends[1].straight_before_mm + 2 * r)
+    r = e.piece.bends[0].centreline_radius_mm
+    assert legs[1] == pytest.approx(e.piece.bends[1].straight_before_mm + 2 * r)
     assert legs[2] == pytest.approx(11.5 * IN + 2 * r)  # the unbroken side
-    for t in e.forming.tool_marks:
+    for t in e.piece.forming.tool_marks:
         b = rows[t.bend_index]
         assert t.from_end_mm == pytest.approx(b.start_from_end_mm)
         assert t.from_centre_mm == pytest.approx(b.start_from_centre_mm)
@@ -176,8 +177,8 @@ def test_corner_reference_and_reverse_direction_move_the_mark(write_design):
                                            direction="reverse")))
     e = plan.elements[0]
     tool_r = 9 / 16 * IN
-    for t in e.forming.tool_marks:
-        b = next(x for x in e.bends if x.index == t.bend_index)
+    for t in e.piece.forming.tool_marks:
+        b = next(x for x in e.piece.bends if x.index == t.bend_index)
         assert t.from_end_mm == pytest.approx(b.end_from_end_mm - tool_r)
 
 
@@ -188,11 +189,11 @@ def test_grip_too_short_is_reported(write_design):
     f = [x for x in plan.findings if x.code == "grip-too-short"]
     assert len(f) == 1 and f[0].severity == "error" and "trim" in f[0].message
     # every bend is still in the order, once
-    assert sorted(plan.elements[0].forming.bend_order) == [1, 2, 3, 4]
+    assert sorted(plan.elements[0].piece.forming.bend_order) == [1, 2, 3, 4]
     # with a modest grip every bend has it
     ok = make_plan(load_design(bender_fd(write_design, grip="100 mm")))
     assert not [x for x in ok.findings if x.code == "grip-too-short"]
-    assert all(t.grip_mm >= 100 for t in ok.elements[0].forming.tool_marks)
+    assert all(t.grip_mm >= 100 for t in ok.elements[0].piece.forming.tool_marks)
 
 
 CAL = """
@@ -220,10 +221,10 @@ def test_calibration_sets_effective_yield_and_changes_the_former(write_design):
     plain = make_plan(load_design(write_design(plain_text, "plain.toml")))
     soft = make_plan(load_design(write_design(CAL.format(held=90.5, released=90), "a.toml")))
     hard = make_plan(load_design(write_design(CAL.format(held=95, released=90), "b.toml")))
-    fs, fh = soft.elements[0].forming, hard.elements[0].forming
-    assert fs.extra["calibrated"] and fh.extra["calibrated"]
-    assert not plain.elements[0].forming.extra["calibrated"]
-    assert fh.extra["effective_yield_mpa"] > fs.extra["effective_yield_mpa"]
+    fs, fh = soft.elements[0].piece.forming, hard.elements[0].piece.forming
+    assert fs.calibrated and fh.calibrated
+    assert not plain.elements[0].piece.forming.calibrated
+    assert fh.effective_yield_mpa > fs.effective_yield_mpa
     # more springback in the test bend: a smaller former and more overbend
     assert fh.bends[0].former_radius_mm < fs.bends[0].former_radius_mm
     assert fh.bends[0].overbend_deg > fs.bends[0].overbend_deg
@@ -274,7 +275,7 @@ diameter = "300 mm"
 feed_gap = "10 mm"
 """
     plan = make_plan(load_design(write_design(text)))
-    f = plan.elements[0].forming
+    f = plan.elements[0].piece.forming
     assert f.splay_if_ignored_mm is None
     assert len(f.formers) == 1
     # hard wire on a 150 mm radius springs back so far that the held wrap passes a full turn
@@ -287,12 +288,13 @@ feed_gap = "10 mm"
                                                abs=1e-6)
 
 
-def test_extend_json_merges_by_index():
-    from fabplan.forming.model import BendForming, ElementForming
+def test_json_merges_the_forming_figures_by_bend_index():
+    from fabplan.forming.records import BendForming, ElementForming
+    from fabplan.render.json import forming_dict
 
     ef = ElementForming((BendForming(2, "former", 10.0, 11.0, 92.0, 2.0, 12.0, 90.0, 0.1),))
     d = {"bends": [{"index": 1}, {"index": 2}]}
-    ef.extend_json(d)
+    forming_dict(ef, d)
     assert "former_radius_mm" not in d["bends"][0]
     assert d["bends"][1]["overbend_deg"] == 92.0 and d["bends"][1]["final_radius_mm"] == 12.0
     assert d["forming"]["formers"] == [] and d["forming"]["splay_if_ignored_mm"] is None
@@ -303,7 +305,7 @@ def test_extend_json_merges_by_index():
 def test_templates_commented_forming_tables_are_valid(name):
     from importlib import resources
 
-    from fabplan.design import parse_design
+    from fabplan.design.read import parse_design
 
     t = resources.files("fabplan").joinpath("templates", f"{name}.toml").read_text("utf-8")
     head, tail = t.split("# How the bend")
@@ -314,13 +316,13 @@ def test_templates_commented_forming_tables_are_valid(name):
     assert s.bender is not None and s.bender.grip_mm > 0
     assert s.calibration is not None and s.calibration.angle_released_deg == 90
     plan = make_plan(design)
-    assert plan.elements[0].forming.extra["calibrated"]
+    assert plan.elements[0].piece.forming.calibrated
 
 
 def test_folded_dipole_discs_and_splay_by_hand(example_path):
     plan = make_plan(load_design(example_path))
     e = plan.elements[0]
-    f = e.forming
+    f = e.piece.forming
     p = plan.design.elements[0].params
     assert (p.length_kind, p.spacing_kind, p.feed_offset_mm) == ("side", "centre_spacing", 0.0)
     side, c, gap = p.length_mm, p.spacing_mm, p.feed_gap_mm

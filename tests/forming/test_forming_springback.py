@@ -11,8 +11,15 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from fabplan.errors import DesignError
-from fabplan.forming.springback import (FlowLaw, SectionModel, calibrate_scale, final_for_held,
-                                        held_for_final, law_for, section_model)
+from fabplan.forming.springback import (
+    FlowLaw,
+    SectionModel,
+    calibrate_scale,
+    final_for_held,
+    held_for_final,
+    law_for,
+    section_model,
+)
 from fabplan.stock.materials import MATERIALS
 from fabplan.stock.profiles import Round, Strip, Tube
 
@@ -96,7 +103,7 @@ def test_section_integral_against_scipy_quad(key, profile):
         if isinstance(profile, Tube):
             breaks.append(profile.id_mm / 2)
         pts = [b for b in breaks if 0 < b < c]
-        val, _ = quad(lambda y: float(law.stress(np.array(k * y))) * y * width(y), 0, c,
+        val, _ = quad(lambda y, k=k: float(law.stress(np.array(k * y))) * y * width(y), 0, c,
                       points=pts or None, limit=200, epsabs=0, epsrel=1e-11)
         assert float(m.moment(k)[0]) == pytest.approx(2 * val, rel=1e-7)
 

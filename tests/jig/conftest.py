@@ -8,7 +8,7 @@ from pathlib import Path
 import numpy as np
 import pytest
 
-from fabplan.design import load_design, parse_design
+from fabplan.design.read import load_design, parse_design
 from fabplan.plan import make_plan
 
 ROOT = Path(__file__).resolve().parents[2]
@@ -57,7 +57,7 @@ lead_out = "20 mm"
 
 def with_forming(plan):
     """The plan, checked to carry the forming stage's figures (the jig's input)."""
-    missing = [e.name for e in plan.elements if e.forming is None]
+    missing = [e.name for e in plan.elements if e.piece.forming is None]
     if missing:
         raise AssertionError(f"no forming figures for {missing}: is the forming step registered?")
     return plan

@@ -10,8 +10,8 @@ import numpy as np
 import pytest
 from shapely.geometry import Point, Polygon
 
-from fabplan.jig.layout import layout_jig
-from fabplan.jig.settings import JigSettings
+from fabplan.design.jig import JigSettings
+from fabplan.plan import jig_for as layout_jig
 from fabplan.render.dxf import LAYERS, bed_to_dxf
 from fabplan.render.svg import bed_to_svg
 
@@ -49,7 +49,7 @@ def test_dxf_version_units_layers_and_audit(mm_doc):
 def test_former_discs_radii_and_spacing_read_back(mm_doc, example_plan, datum_transform, to_bed):
     _, doc = mm_doc
     msp = doc.modelspace()
-    f = example_plan.elements[0].forming
+    f = example_plan.elements[0].piece.forming
     cut = sorted(c.dxf.radius for c in msp.query(f"CIRCLE[layer=='{LAYERS['cut'][0]}']"))
     assert cut == pytest.approx(sorted(fm.radius_mm for fm in f.formers), abs=TOL)
     # the plate's bolt holes, found at the Plan's centres through the datum
@@ -72,7 +72,7 @@ def test_every_mark_position_reads_back(mm_doc, example_plan, datum_transform, t
     frame = datum_transform(msp)
     mids = [np.array([(ln.dxf.start.x + ln.dxf.end.x) / 2, (ln.dxf.start.y + ln.dxf.end.y) / 2])
             for ln in msp.query(f"LINE[layer=='{LAYERS['engrave'][0]}']")]
-    marks = example_plan.elements[0].forming.jig_marks
+    marks = example_plan.elements[0].piece.forming.jig_marks
     assert marks
     for m in marks:
         want = to_bed(frame, m.point_mm)
@@ -112,7 +112,7 @@ def _cut_shapes(doc):
 
 @pytest.mark.parametrize("bed", ["600x400mm", "250x300mm"])
 def test_no_two_cut_parts_overlap_in_the_file(long_plan, example_plan, bed, read_dxf):
-    from fabplan.jig.settings import with_options
+    from fabplan.design.jig import with_options
 
     s = with_options(JigSettings(kerf_mm=0.2), bed=bed)
     for plan in (example_plan, long_plan):
@@ -142,7 +142,7 @@ def test_inch_drawing_scales_every_figure(example_plan, read_dxf, datum_transfor
     assert doc.header["$INSUNITS"] == 1  # source: DXF reference, $INSUNITS 1 = inches
     assert not doc.audit().has_errors
     msp = doc.modelspace()
-    f = example_plan.elements[0].forming
+    f = example_plan.elements[0].piece.forming
     cut = sorted(c.dxf.radius for c in msp.query(f"CIRCLE[layer=='{LAYERS['cut'][0]}']"))
     # source: 1 in = 25.4 mm exactly (NIST SP 811)
     assert [r * 25.4 for r in cut] == pytest.approx(sorted(fm.radius_mm for fm in f.formers),
@@ -170,7 +170,7 @@ def test_svg_size_in_mm_and_a_measured_spacing(example_plan):
     root = ET.fromstring(bed_to_svg(layout, bed))
     assert root.get("width") == f"{s.bed_mm[0]:g}mm" and root.get("height") == f"{s.bed_mm[1]:g}mm"
     assert [float(v) for v in root.get("viewBox").split()] == [0, 0, *s.bed_mm]
-    f = example_plan.elements[0].forming
+    f = example_plan.elements[0].piece.forming
     centres = {}
     for c in root.iter(f"{SVG}circle"):
         role = c.get("data-role", "")
@@ -188,14 +188,18 @@ def test_svg_size_in_mm_and_a_measured_spacing(example_plan):
     assert radii == pytest.approx(sorted(fm.radius_mm for fm in f.formers), abs=TOL)
 
 
-def test_write_jig_files_checks_every_target_before_writing(long_plan, tmp_path):
-    from fabplan.render.jigfiles import write_jig_files
+def test_jig_files_are_written_all_or_nothing(long_plan, tmp_path):
+    import dataclasses
+
     from fabplan.errors import FabplanError
+    from fabplan.render.files import write_set
+    from fabplan.render.jig import jig_files
 
     s = JigSettings(bed_mm=(600.0, 400.0))
-    paths = write_jig_files(long_plan, s, tmp_path / "out", ("dxf", "svg"), False)
+    plan = dataclasses.replace(long_plan, jig=layout_jig(long_plan, s))
+    paths = write_set(tmp_path / "out", jig_files(plan, ("dxf", "svg")), False)
     names = sorted(p.name for p in paths)
-    beds = len(layout_jig(long_plan, s).beds)
+    beds = len(plan.jig.beds)
     assert beds >= 2 and len(names) == 2 * beds
     assert names[0] == "design-jig-1.dxf"  # a design read from text has no file name
     # one existing target blocks the whole run; nothing else is touched
@@ -203,11 +207,11 @@ def test_write_jig_files_checks_every_target_before_writing(long_plan, tmp_path)
     paths[-1].write_bytes(b"mine")
     paths[0].unlink()
     with pytest.raises(FabplanError, match="already exists"):
-        write_jig_files(long_plan, s, tmp_path / "out", ("dxf", "svg"), False)
+        write_set(tmp_path / "out", jig_files(plan, ("dxf", "svg")), False)
     assert not paths[0].exists() and paths[-1].read_bytes() == b"mine"
-    write_jig_files(long_plan, s, tmp_path / "out", "dxf,svg", True)
+    assert not [p for p in (tmp_path).iterdir() if p.name.startswith(".")]  # no leftovers
+    write_set(tmp_path / "out", jig_files(plan), True)
     assert {p: p.read_bytes() for p in paths} == keep
-
 
 def _svg_arc_centre(p0, p1, r, large, sweep):
     """Centre of an SVG elliptical arc with rx = ry = r and no rotation, by the

@@ -17,7 +17,7 @@ def test_writes_dxf_and_svg_and_refuses_to_overwrite(run_cli, design, tmp_path):
     proc = run_cli("jig", design, "-o", out, check_exit=0)
     files = sorted(p.name for p in out.iterdir())
     assert files == ["dipole-jig-1.dxf", "dipole-jig-1.svg"]
-    assert proc.stdout.count("wrote ") == 2
+    assert proc.stderr.count("wrote ") == 2
     first = {p.name: p.read_bytes() for p in out.iterdir()}
     refused = run_cli("jig", design, "-o", out, "--kerf", "0.3 mm")
     assert refused.returncode == 2
@@ -62,7 +62,7 @@ def test_the_module_imports_no_heavy_library():
     import subprocess
     import sys
 
-    code = ("import sys, fabplan.cli, fabplan.commands.jig, fabplan.jig.settings; "
+    code = ("import sys, fabplan.cli, fabplan.commands.jig, fabplan.design.jig; "
             "print(sorted(m for m in ('ezdxf', 'shapely', 'reportlab') if m in sys.modules))")
     out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
                          check=True).stdout.strip()

@@ -11,9 +11,9 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from shapely.geometry import LineString, Point, box
 
-from fabplan.jig.layout import layout_jig
-from fabplan.jig.settings import JigSettings
+from fabplan.design.jig import JigSettings
 from fabplan.jig.shapes import Circle, Contour, Text
+from fabplan.plan import jig_for as layout_jig
 
 
 def _items(layout, role_prefix: str, kind: str | None = None):
@@ -44,13 +44,13 @@ def test_pins_are_tangent_to_the_conductor(example_plan):
     e = example_plan.elements[0]
     s = JigSettings()
     layout = layout_jig(example_plan, s)
-    pts, _ = e.path.sample(0.05)
+    pts, _ = e.piece.path.sample(0.05)
     centreline = LineString([(p[0], p[1]) for p in pts])
     pins = [it.shape for _, _, it in _items(layout, "pin-hole", "plate")]
     assert len(pins) >= 8
     for c in pins:
         # centre offset by half the conductor plus the pin radius (the brief's rule)
-        expected = e.conductor_diameter_mm / 2 + s.pin_diameter_mm / 2
+        expected = e.piece.conductor_diameter_mm / 2 + s.pin_diameter_mm / 2
         assert centreline.distance(Point(c.centre)) == pytest.approx(expected, abs=1e-3)
         assert c.radius == pytest.approx(s.pin_diameter_mm / 2)
     # pins along one straight side sit at whole pitches from each other (a station
@@ -59,14 +59,14 @@ def test_pins_are_tangent_to_the_conductor(example_plan):
     gaps = [(b - a) / s.pin_pitch_mm for a, b in zip(top, top[1:])]
     assert gaps and all(g == pytest.approx(round(g)) and round(g) >= 1 for g in gaps)
     # and none of them covers a mark
-    for m in e.forming.jig_marks:
-        assert all(math.dist(c.centre, m.point_mm) > c.radius + e.conductor_diameter_mm / 2
+    for m in e.piece.forming.jig_marks:
+        assert all(math.dist(c.centre, m.point_mm) > c.radius + e.piece.conductor_diameter_mm / 2
                    for c in pins)
 
 
 def test_pins_clear_the_former_discs(example_plan):
     layout = layout_jig(example_plan, JigSettings())
-    f = example_plan.elements[0].forming
+    f = example_plan.elements[0].piece.forming
     for _, _, it in _items(layout, "pin-hole", "plate"):
         for fm in f.formers:
             gap = math.dist(it.shape.centre, fm.centre_mm) - fm.radius_mm - it.shape.radius
@@ -75,7 +75,7 @@ def test_pins_clear_the_former_discs(example_plan):
 
 def test_formers_and_bolt_holes_come_from_the_plan(example_plan):
     layout = layout_jig(example_plan, JigSettings())
-    f = example_plan.elements[0].forming
+    f = example_plan.elements[0].piece.forming
     discs = [pl.part for bed in layout.beds for pl in bed.parts if pl.part.kind == "former"]
     assert sorted(p.name for p in discs) == sorted(f"70 cm driven element: former {fm.label}"
                                                    for fm in f.formers)
@@ -116,12 +116,12 @@ def test_a_long_plate_is_cut_into_sections_with_matching_alignment_holes(long_pl
     assert math.dist(spl[0], spl[2]) == pytest.approx(right[0][0] - left[0][0])
     # nothing of the formers' bolt holes is lost in the cut
     bolts = [it for p in sections for it in p.items if it.role.startswith("bolt-hole")]
-    assert len(bolts) == len(long_plan.elements[0].forming.formers)
+    assert len(bolts) == len(long_plan.elements[0].piece.forming.formers)
 
 
 def test_end_plates_carry_the_plan_spacing(long_plan):
     layout = layout_jig(long_plan, JigSettings(bed_mm=(1000.0, 400.0), split="end-plates"))
-    f = long_plan.elements[0].forming
+    f = long_plan.elements[0].piece.forming
     kinds = [pl.part.kind for bed in layout.beds for pl in bed.parts]
     assert kinds.count("end-plate") == 2 and kinds.count("spacing-bar") == 1
     bar = next(pl.part for bed in layout.beds for pl in bed.parts
@@ -135,7 +135,7 @@ def test_end_plates_carry_the_plan_spacing(long_plan):
 def test_kerf_grows_outlines_and_shrinks_holes(example_plan, kerf):
     s = JigSettings(kerf_mm=kerf)
     layout = layout_jig(example_plan, s)
-    f = example_plan.elements[0].forming
+    f = example_plan.elements[0].piece.forming
     for fm in f.formers:
         disc = next(pl.part for bed in layout.beds for pl in bed.parts
                     if pl.part.name.endswith(f"former {fm.label}"))
@@ -159,9 +159,9 @@ def test_labels_name_element_stock_former_and_overbend(example_plan):
     e = example_plan.elements[0]
     text = " ".join(it.shape.text for _, _, it in _items(layout, "label", "plate"))
     assert e.name in text and example_plan.stock.description in text
-    for fm in e.forming.formers:
+    for fm in e.piece.forming.formers:
         assert f"dia {2 * fm.radius_mm:.2f} mm" in text
-    for b in e.forming.bends:
+    for b in e.piece.forming.bends:
         assert f"bend to {b.overbend_deg:.1f} deg" in text
 
 
@@ -169,13 +169,13 @@ def test_every_jig_mark_is_engraved_across_the_conductor(example_plan):
     layout = layout_jig(example_plan, JigSettings())
     e = example_plan.elements[0]
     lines = [it.shape for _, _, it in _items(layout, "mark ", "plate")]
-    assert len(lines) == len(e.forming.jig_marks)
-    for m, line in zip(e.forming.jig_marks, lines):
+    assert len(lines) == len(e.piece.forming.jig_marks)
+    for m, line in zip(e.piece.forming.jig_marks, lines):
         assert line.midpoint() == pytest.approx(m.point_mm, abs=1e-9)
         # perpendicular to the stock, longer than the conductor is wide
         d = (line.end[0] - line.start[0], line.end[1] - line.start[1])
         assert abs(d[0] * m.direction[0] + d[1] * m.direction[1]) < 1e-9
-        assert line.length > e.conductor_diameter_mm
+        assert line.length > e.piece.conductor_diameter_mm
 
 
 def test_calibration_squares_are_100_mm_and_4_in(example_plan):
@@ -195,24 +195,25 @@ def test_helix_gets_a_mandrel_and_a_pitch_guide(helix_plan):
     assert "plate" not in parts
     mandrel = [it.shape for it in parts["mandrel"].items if it.role == "mandrel"][0]
     ys = [p[1] for p in mandrel.points()]
-    assert max(ys) - min(ys) == pytest.approx(2 * e.forming.bends[0].former_radius_mm)
+    assert max(ys) - min(ys) == pytest.approx(2 * e.piece.forming.bends[0].former_radius_mm)
     # one line per turn (its front half), every one on the mandrel's body
     turns = [it.shape for it in parts["mandrel"].items if it.role == "turn"]
-    assert len(turns) == round(e.bends[0].angle_deg / 360)
+    assert len(turns) == round(e.piece.bends[0].angle_deg / 360)
     xs = [p[0] for p in mandrel.points()]
     for line in turns:
         for x, _ in (line.start, line.end):
             assert min(xs) - 1e-9 <= x <= max(xs) + 1e-9
     notes = " ".join(it.shape.text for it in parts["mandrel"].items
                      if isinstance(it.shape, Text))
-    assert f"{e.bends[0].pitch_mm:.2f} mm" in notes
+    assert f"{e.piece.bends[0].pitch_mm:.2f} mm" in notes
     # the guide's notches are the conductor's radius, one pitch apart; a router bit
     # wider than them is flagged
     guide = [it.shape for it in parts["pitch-guide"].items if it.op == "cut"][0]
     notches = sorted(sg.centre[0] for sg in guide.segments
                      if getattr(sg, "sweep_deg", 0) < 0)
     assert len(notches) == 6
-    assert all(b - a == pytest.approx(e.bends[0].pitch_mm) for a, b in zip(notches, notches[1:]))
+    pitch = e.piece.bends[0].pitch_mm
+    assert all(b - a == pytest.approx(pitch) for a, b in zip(notches, notches[1:]))
     assert "jig-inside-corner" in {f.code for f in layout.findings}
     laser = layout_jig(helix_plan, dataclasses.replace(s, tool_radius_mm=0.0))
     assert "jig-inside-corner" not in {f.code for f in laser.findings}
@@ -268,7 +269,7 @@ def test_any_bed_gets_parts_inside_it_and_apart(long_plan, w, h, split, kerf):
 def test_the_plate_keeps_its_margin_round_everything(shape):
     from importlib import resources
 
-    from fabplan.design import parse_design
+    from fabplan.design.read import parse_design
     from fabplan.plan import make_plan
 
     text = resources.files("fabplan").joinpath("templates", f"{shape}.toml").read_text("utf-8")

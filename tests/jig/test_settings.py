@@ -4,10 +4,10 @@ from __future__ import annotations
 
 import pytest
 
-from fabplan.config import Section
-from fabplan.design import parse_design
+from fabplan.design.jig import JigSettings, parse_bed, read_jig, with_options
+from fabplan.design.read import parse_design
 from fabplan.errors import DesignError
-from fabplan.jig.settings import JigSettings, parse_bed, read_jig, with_options
+from fabplan.section import Section
 
 
 def test_defaults_when_the_table_is_absent(folded_dipole_toml):

@@ -10,8 +10,16 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 from shapely.geometry import Polygon
 
-from fabplan.jig.shapes import (Arc, Contour, Line, clip_arc_x, contour_to_polygon,
-                                inside_corners, offset_contour, rounded_rect)
+from fabplan.jig.shapes import (
+    Arc,
+    Contour,
+    Line,
+    clip_arc_x,
+    contour_to_polygon,
+    inside_corners,
+    offset_contour,
+    rounded_rect,
+)
 
 FINE = 0.25  # degrees per sampled arc step: chord error far below 0.001 mm here
 

@@ -43,7 +43,7 @@ def test_build_writes_everything(built):
     for key in ("sheet", "template"):
         with pdfplumber.open(out / BUILD_NAMES[key]) as pdf:
             assert len(pdf.pages) >= 2
-    written = [line.split(" ", 1)[1] for line in procs[0].stdout.splitlines()
+    written = [line.split(" ", 1)[1] for line in procs[0].stderr.splitlines()
                if line.startswith("wrote ")]
     assert sorted(p.rsplit("/", 1)[-1] for p in written) == sorted(
         p.name for p in out.iterdir())  # it says what it wrote, and wrote nothing else
@@ -107,7 +107,7 @@ def test_build_writes_the_sweep_as_csv(run_cli, write_design, swept_folded_dipol
     frequency, the Plan's impedance and SWR (read back with the csv module)."""
     import csv
 
-    from fabplan.design import load_design
+    from fabplan.design.read import load_design
     from fabplan.plan import make_plan
 
     design = write_design(swept_folded_dipole_toml)

@@ -18,11 +18,12 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from fabplan.design import load_design
+from fabplan.design.read import load_design
 from fabplan.errors import DesignError
 from fabplan.plan import make_plan
-from fabplan.render.fullscale import (CENTRE_TICK_MM, CROSS_MM, OVERLAP_MM, STRIP_TICK_MM,
-                                      template_pdf, tile_count)
+from fabplan.render.fullscale import template_pdf
+from fabplan.render.fullscale.layout import CENTRE_TICK_MM, STRIP_TICK_MM
+from fabplan.render.fullscale.tiling import CROSS_MM, OVERLAP_MM, tile_count
 
 EXAMPLE = Path(__file__).resolve().parents[2] / "examples" / "club-uhf-folded-dipoles.toml"
 PT = 72 / 25.4  # pt per mm: 1 in = 25.4 mm = 72 pt (source: ISO 32000-1, 8.3.2.3 user space)
@@ -141,8 +142,8 @@ def test_every_page_has_true_calibration_bars(pdfs, paper):
 def _check_strip(e, data: bytes) -> int:
     """Assemble the tiles, measure the strip's ticks from the centre tick and
     compare with the Plan's marks; returns the page count."""
-    tick = (e.conductor_diameter_mm + 2 * STRIP_TICK_MM) * PT
-    centre = (e.conductor_diameter_mm + 2 * CENTRE_TICK_MM) * PT
+    tick = (e.piece.conductor_diameter_mm + 2 * STRIP_TICK_MM) * PT
+    centre = (e.piece.conductor_diameter_mm + 2 * CENTRE_TICK_MM) * PT
     with _open(data) as pdf:
         pages = len(pdf.pages)
         offset = _assemble(pdf)
@@ -152,7 +153,7 @@ def _check_strip(e, data: bytes) -> int:
     x0 = mid[0][0]
     drawn = sorted((t[0] - x0) / PT for t in ticks)
     planned: list[float] = []
-    for x in sorted(m.from_centre_mm for m in e.marks if m.kind != "centre"):
+    for x in sorted(m.from_centre_mm for m in e.piece.marks if m.kind != "centre"):
         if not planned or x - planned[-1] > 0.01:  # marks at one place share a tick
             planned.append(x)
     assert len(drawn) == len(planned)
@@ -183,34 +184,34 @@ def test_blank_tiles_left_out_and_the_rest_still_join(write_design):
 
 def test_feed_gap_on_the_bent_drawing_matches_the_plan(example_plan, pdfs):
     e = example_plan.elements[0]
-    tick = (e.conductor_diameter_mm + 8) * PT  # mark ticks across the bent conductor
+    tick = (e.piece.conductor_diameter_mm + 8) * PT  # mark ticks across the bent conductor
     with _open(pdfs["a4"]) as pdf:
         ticks = _global_lines(pdf, _assemble(pdf), lambda ln: _vertical(ln, tick))
     # the ends A and B face each other across the feed gap, on one side's line
     pairs = [abs(a[0] - b[0]) / PT for i, a in enumerate(ticks) for b in ticks[i + 1:]
              if abs(a[1] - b[1]) < 0.01 and abs(a[0] - b[0]) > 0.01]
-    assert min(pairs) == pytest.approx(e.gap_mm, abs=0.1)
+    assert min(pairs) == pytest.approx(e.piece.gap_mm, abs=0.1)
 
 
 def test_former_spacing_drawn_true(example_plan):
     """Former circles at 1:1: centres as far apart as the Plan's spacing."""
-    from fabplan.forming.model import BendForming, ElementForming, Former
+    from fabplan.forming.records import BendForming, ElementForming, Former
 
     e = example_plan.elements[0]
-    forming = e.forming
+    forming = e.piece.forming
     if forming is None or not forming.formers:
         # no forming stage in this Plan: give it one former per bend at the
         # bend's own centre, so the drawing of formers is still measured
         formers, bends = [], []
-        for i, prim in enumerate(p for p in e.path.primitives() if hasattr(p, "radius")):
+        for i, prim in enumerate(p for p in e.piece.path.primitives() if hasattr(p, "radius")):
             formers.append(Former(f"F{i + 1}", (i + 1,), (prim.centre[0], prim.centre[1]),
-                                  prim.radius - e.conductor_diameter_mm / 2, 185.0))
+                                  prim.radius - e.piece.conductor_diameter_mm / 2, 185.0))
             bends.append(BendForming(i + 1, "former", formers[-1].radius_mm, prim.radius,
                                      185.0, 5.0, prim.radius, 180.0, 0.1))
         spacing = tuple(math.dist(a.centre_mm, b.centre_mm) for a, b in zip(formers,
                                                                            formers[1:]))
         forming = ElementForming(tuple(bends), tuple(formers), spacing)
-    e2 = dataclasses.replace(e, forming=forming)
+    e2 = dataclasses.replace(e, pieces=(dataclasses.replace(e.piece, forming=forming),))
     p2 = dataclasses.replace(example_plan, elements=(e2,))
     with _open(template_pdf(p2, "a4")) as pdf:
         offset = _assemble(pdf)
@@ -285,7 +286,7 @@ def test_bender_marks_drawn_where_the_plan_puts_them(write_design):
     """With a hand bender the forming stage gives pencil marks for the tool;
     the template draws them (dashed, below the strip) at their distance from
     the centre tick."""
-    from fabplan.render.fullscale import TOOL_TICK_MM
+    from fabplan.render.fullscale.layout import TOOL_TICK_MM
 
     text = EXAMPLE.read_text()
     cut = text.find("\n[electrical]")
@@ -294,15 +295,15 @@ def test_bender_marks_drawn_where_the_plan_puts_them(write_design):
         '[forming.bender]\nradius = "9/16 in"\nreference = "bend-start"\n')
     p = make_plan(load_design(write_design(text)))
     e = p.elements[0]
-    assert e.forming is not None and e.forming.tool_marks
-    centre = (e.conductor_diameter_mm + 2 * CENTRE_TICK_MM) * PT
+    assert e.piece.forming is not None and e.piece.forming.tool_marks
+    centre = (e.piece.conductor_diameter_mm + 2 * CENTRE_TICK_MM) * PT
     with _open(template_pdf(p, "letter")) as pdf:
         offset = _assemble(pdf)
         tools = _global_lines(pdf, offset, lambda ln: _vertical(ln, TOOL_TICK_MM * PT))
         mid = _global_lines(pdf, offset, lambda ln: _vertical(ln, centre))
     assert len(mid) == 1
     drawn = sorted((t[0] - mid[0][0]) / PT for t in tools)
-    planned = sorted(t.from_centre_mm for t in e.forming.tool_marks)
+    planned = sorted(t.from_centre_mm for t in e.piece.forming.tool_marks)
     assert drawn == pytest.approx(planned, abs=0.1)  # within 0.1 mm on the paper
 
 
@@ -311,7 +312,7 @@ def test_bender_marks_drawn_where_the_plan_puts_them(write_design):
 def test_mark_labels_never_crowd(xs, gap):
     """Labels keep at least `gap` apart, keep the marks' order, and each crowd
     stays centred on its marks (so the mean position is kept)."""
-    from fabplan.render.fullscale import _spread
+    from fabplan.render.fullscale.layout import _spread
 
     out = _spread(xs, gap)
     order = sorted(range(len(xs)), key=lambda i: xs[i])

@@ -9,7 +9,7 @@ from pathlib import Path
 import pdfplumber
 import pytest
 
-from fabplan.design import load_design
+from fabplan.design.read import load_design
 from fabplan.errors import DesignError
 from fabplan.plan import make_plan
 from fabplan.render.sheet import SAFETY, sheet_pdf
@@ -46,7 +46,7 @@ def test_cut_length_and_marks_as_the_plan_gives_them(example_plan, a4):
     for e in example_plan.elements:
         assert f"Cut length {format_inches(e.cut_length_mm, den)} " \
                f"({format_mm(e.cut_length_mm)})" in text
-        for m in e.marks:
+        for m in e.piece.marks:
             d = abs(m.from_centre_mm)
             # the marks table row: label, side, inches and mm from the centre
             side = "-" if d < 1e-9 else ("A" if m.from_centre_mm < 0 else "B")
@@ -56,7 +56,7 @@ def test_cut_length_and_marks_as_the_plan_gives_them(example_plan, a4):
 def test_bend_table_and_steps(example_plan, a4):
     text = _flat(a4)
     e = example_plan.elements[0]
-    for b in e.bends:
+    for b in e.piece.bends:
         assert f"bend {b.index}" in text
     assert "Bending steps" in text and "M2 to M3" in text  # bend 1 lies between its marks
 
@@ -109,11 +109,11 @@ def test_later_stages_sections(example_plan, a4):
     text = _flat(a4)
     den = example_plan.design.shop.fraction
     e = example_plan.elements[0]
-    if e.forming is not None and e.forming.formers:
+    if e.piece.forming is not None and e.piece.forming.formers:
         assert "Jig: formers" in text
-        for gap in e.forming.former_spacing_mm:
+        for gap in e.piece.forming.former_spacing_mm:
             assert f"{format_inches(gap, den)} ({format_mm(gap)})" in text
-        for b in e.forming.bends:
+        for b in e.piece.forming.bends:
             assert f"bend to {b.overbend_deg:.1f} deg while held" in text
     else:
         assert "Jig: formers" not in text
@@ -150,7 +150,7 @@ def test_mm_shop_gets_millimetres_first(write_design):
     den = p.design.shop.fraction
     assert f"Cut length {format_mm(e.cut_length_mm)} ({format_inches(e.cut_length_mm, den)})" \
         in flat
-    for m in e.marks:
+    for m in e.piece.marks:
         d = abs(m.from_centre_mm)
         side = "-" if d < 1e-9 else ("A" if m.from_centre_mm < 0 else "B")
         assert f"{m.label} {side} {format_mm(d)} {format_inches(d, den)}" in flat

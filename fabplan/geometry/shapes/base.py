@@ -1,28 +1,116 @@
-"""What every shape template provides.
+"""What every shape template provides, and what it tells the other stages.
 
 A shape reads its own keys from an `[[element]]` table into a frozen `params`
-dataclass (lengths in mm), turns the params into a `BendPath` for a conductor
-of a given outside diameter, and reports the problems it can see in its own
-dimensions as findings. It also names its governing length (the one a tuner
-scales to move the resonance) and can return params with that length changed.
+dataclass (lengths in mm), turns the params into the element's geometry (one
+or more pieces of stock, each a `BendPath` in the element's own frame, and the
+gaps between piece ends) for a conductor of a given outside diameter, and
+reports the problems it can see in its own dimensions as findings. It also
+names its governing length (the one a tuner scales to move the resonance),
+returns params with that length changed, and says which design-file keys
+carry that length (so a tuned design can be written back).
+
+Shapes whose element is two parallel sides joined by 180-degree ends (a folded
+dipole, a hairpin) declare it with `ParallelEnds`: the forming stage uses it
+to make square ends where a bender cannot make round ones, and to report how
+far the legs would splay if springback were ignored.
 """
 
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Any, Callable
+from typing import Any, Literal
 
-from ...config import Section
 from ...errors import DesignError, Finding
+from ...section import Section
 from ..path import BendPath
 
-__all__ = ["ShapeSpec", "pick_one", "spacing_centre", "gap_and_offset", "arc_angle_of_chord",
+__all__ = ["ShapeSpec", "ParallelEnds", "PieceGeometry", "End", "Gap", "ElementGeometry",
+           "TunedValue", "pick_one", "spacing_centre", "gap_and_offset", "arc_angle_of_chord",
            "centre_to_centre"]
+
+# a design-file value the tuner writes back: ("length", mm) or ("number", value)
+TunedValue = tuple[Literal["length", "number"], float]
+
+
+@dataclass(frozen=True)
+class PieceGeometry:
+    """One piece of stock: its bend path in the element's frame (mm). `label`
+    names it on the sheet ("" for an element of one piece)."""
+
+    label: str
+    path: BendPath
+
+
+@dataclass(frozen=True)
+class End:
+    """One end of a piece: `piece` indexes the element's pieces; "A" is where its
+    bend path starts, "B" where it ends."""
+
+    piece: int
+    end: Literal["A", "B"]
+
+
+@dataclass(frozen=True)
+class Gap:
+    """A gap between two piece ends (or the two ends of one piece) of `width_mm`:
+    the feed point ("feed"), or where a lumped part sits ("load")."""
+
+    a: End
+    b: End
+    width_mm: float
+    role: Literal["feed", "load"] = "feed"
+
+
+@dataclass(frozen=True)
+class ElementGeometry:
+    """The pieces of stock an element is made of, and the gaps between their ends."""
+
+    pieces: tuple[PieceGeometry, ...]
+    gaps: tuple[Gap, ...] = ()
+
+    @property
+    def feed(self) -> Gap | None:
+        """The feed gap, when the element is fed."""
+        return next((g for g in self.gaps if g.role == "feed"), None)
+
+
+@dataclass(frozen=True)
+class ParallelEnds:
+    """Two parallel sides joined by ends that may be round (one 180-degree bend
+    of half the centre spacing) or square (two 90-degree bends and a straight).
+
+    `centre_spacing(params, d)`: centre-to-centre spacing (mm) for stock of
+    diameter d; `is_round(params)`; `squared(params, radius_mm)`: the params
+    with square ends of that centreline radius."""
+
+    centre_spacing: Callable[[Any, float], float]
+    is_round: Callable[[Any], bool]
+    squared: Callable[[Any, float], Any]
+
+
+def _one_piece(build: Callable[[Any, float], BendPath]) -> Callable[[Any, float],
+                                                                    ElementGeometry]:
+    def geometry(params: Any, diameter_mm: float) -> ElementGeometry:
+        path = build(params, diameter_mm)
+        gaps = (() if path.gap_mm is None
+                else (Gap(End(0, "B"), End(0, "A"), path.gap_mm, "feed"),))
+        return ElementGeometry((PieceGeometry("", path),), gaps)
+
+    return geometry
 
 
 @dataclass(frozen=True)
 class ShapeSpec:
+    """Everything the rest of fabplan knows about one shape.
+
+    `build(params, d)` gives the bend path of a one-piece shape; `geometry`
+    (by default the one piece `build` makes, fed across its gap when it has one)
+    gives every piece and gap. `tuned_keys(params)` gives the design-file keys
+    that carry the governing length and their values for these params.
+    """
+
     name: str
     summary: str
     keys: tuple[str, ...]  # every key `read` may take from the element table
@@ -31,7 +119,14 @@ class ShapeSpec:
     problems: Callable[[Any, float], list[Finding]]
     governing: Callable[[Any], tuple[str, float]]
     with_governing: Callable[[Any, float], Any]
-    has_feed: bool
+    tuned_keys: Callable[[Any], dict[str, TunedValue]]
+    parallel_ends: ParallelEnds | None = None
+    geometry: Callable[[Any, float], ElementGeometry] | None = None
+
+    def element_geometry(self, params: Any, diameter_mm: float) -> ElementGeometry:
+        """Every piece and gap of an element of this shape."""
+        make = self.geometry or _one_piece(self.build)
+        return make(params, diameter_mm)
 
 
 def pick_one(sec: Section, keys: tuple[str, ...]) -> tuple[str, float]:

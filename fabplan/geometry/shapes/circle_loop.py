@@ -10,10 +10,10 @@ import dataclasses
 import math
 from dataclasses import dataclass
 
-from ...config import Section
 from ...errors import Finding
+from ...section import Section
 from ..path import Bend, BendPath
-from .base import ShapeSpec, arc_angle_of_chord, pick_one
+from .base import ShapeSpec, TunedValue, arc_angle_of_chord, pick_one
 
 NAME = "circle-loop"
 SUMMARY = "a full circle of stock less the feed gap"
@@ -61,5 +61,10 @@ def with_governing(p: Params, value: float) -> Params:
 
 KEYS = ("diameter", "circumference", "feed_gap")
 
+def tuned_keys(p: Params) -> dict[str, TunedValue]:
+    return {"diameter": ("length", p.diameter_mm),
+            "circumference": ("length", math.pi * p.diameter_mm)}
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 True)
+                 tuned_keys)

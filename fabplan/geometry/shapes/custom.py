@@ -13,10 +13,10 @@ from dataclasses import dataclass
 
 import numpy as np
 
-from ...config import Section
 from ...errors import DesignError, Finding
+from ...section import Section
 from ..path import Bend, BendPath, Straight
-from .base import ShapeSpec
+from .base import ShapeSpec, TunedValue
 
 NAME = "custom"
 SUMMARY = "a bend table given directly (straight, angle, radius, rotation per bend)"
@@ -87,5 +87,9 @@ def with_governing(p: Params, value: float) -> Params:
 
 KEYS = ("bends", "tail", "feed_gap")
 
+def tuned_keys(p: Params) -> dict[str, TunedValue]:
+    return {"tail": ("length", p.tail_mm)}
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 False)
+                 tuned_keys)

@@ -13,10 +13,10 @@ import dataclasses
 import math
 from dataclasses import dataclass
 
-from ...config import Section
 from ...errors import DesignError, Finding
+from ...section import Section
 from ..path import Bend, BendPath, Straight
-from .base import ShapeSpec, gap_and_offset
+from .base import ShapeSpec, TunedValue, gap_and_offset
 from .polygon import polygon_straights, rounded_polygon, setbacks
 
 NAME = "delta-loop"
@@ -119,5 +119,12 @@ def with_governing(p: Params, value: float) -> Params:
 
 KEYS = ("side", "base", "legs", "corner_radius", "feed_gap", "feed_offset", "feed")
 
+def tuned_keys(p: Params) -> dict[str, TunedValue]:
+    out: dict[str, TunedValue] = {"base": ("length", p.base_mm), "legs": ("length", p.legs_mm)}
+    if abs(p.base_mm - p.legs_mm) < 1e-9:
+        out["side"] = ("length", p.base_mm)
+    return out
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 True)
+                 tuned_keys)

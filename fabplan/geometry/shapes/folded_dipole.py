@@ -14,10 +14,18 @@ import dataclasses
 from dataclasses import dataclass
 from typing import Literal
 
-from ...config import Section
 from ...errors import DesignError, Finding
+from ...section import Section
 from ..path import Bend, BendPath, Straight
-from .base import ShapeSpec, centre_to_centre, gap_and_offset, pick_one, spacing_centre
+from .base import (
+    ParallelEnds,
+    ShapeSpec,
+    TunedValue,
+    centre_to_centre,
+    gap_and_offset,
+    pick_one,
+    spacing_centre,
+)
 
 NAME = "folded-dipole"
 SUMMARY = "two parallel sides joined by 180-degree ends, fed at a gap in one side"
@@ -121,7 +129,18 @@ def with_governing(p: Params, value: float) -> Params:
     return dataclasses.replace(p, length_mm=value)
 
 
-KEYS = ("side", "inside_length", "overall_length", "spacing", "centre_spacing", "feed_gap", "feed_offset", "end_style", "bend_radius")
+KEYS = ("side", "inside_length", "overall_length", "spacing", "centre_spacing", "feed_gap",
+        "feed_offset", "end_style", "bend_radius")
+
+
+def tuned_keys(p: Params) -> dict[str, TunedValue]:
+    return {p.length_kind: ("length", p.length_mm)}
+
+
+PARALLEL_ENDS = ParallelEnds(
+    centre_spacing=lambda p, d: p.centre_spacing(d),
+    is_round=lambda p: p.end_style == "round",
+    squared=lambda p, r: dataclasses.replace(p, end_style="square", bend_radius_mm=r))
 
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 True)
+                 tuned_keys, PARALLEL_ENDS)

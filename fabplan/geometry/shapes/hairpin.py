@@ -11,10 +11,10 @@ import dataclasses
 from dataclasses import dataclass
 from typing import Literal
 
-from ...config import Section
 from ...errors import Finding
+from ...section import Section
 from ..path import Bend, BendPath, Straight
-from .base import ShapeSpec, centre_to_centre, spacing_centre
+from .base import ParallelEnds, ShapeSpec, TunedValue, centre_to_centre, spacing_centre
 
 NAME = "hairpin"
 SUMMARY = "two parallel legs joined by a 180-degree bend (or two 90-degree bends)"
@@ -82,5 +82,14 @@ def with_governing(p: Params, value: float) -> Params:
 
 KEYS = ("leg", "spacing", "centre_spacing", "end_style", "bend_radius")
 
+def tuned_keys(p: Params) -> dict[str, TunedValue]:
+    return {"leg": ("length", p.leg_mm)}
+
+
+PARALLEL_ENDS = ParallelEnds(
+    centre_spacing=lambda p, d: p.centre_spacing(d),
+    is_round=lambda p: p.end_style == "round",
+    squared=lambda p, r: dataclasses.replace(p, end_style="square", bend_radius_mm=r))
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 False)
+                 tuned_keys, PARALLEL_ENDS)

@@ -9,10 +9,10 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 
-from ...config import Section
 from ...errors import Finding
+from ...section import Section
 from ..path import Bend, BendPath, Straight
-from .base import ShapeSpec, pick_one
+from .base import ShapeSpec, TunedValue, pick_one
 
 NAME = "helix"
 SUMMARY = "turns of a given diameter and pitch with straight leads (helical antennas, coils)"
@@ -70,5 +70,9 @@ def with_governing(p: Params, value: float) -> Params:
 
 KEYS = ("turns", "diameter", "pitch", "coil_length", "lead_in", "lead_out")
 
+def tuned_keys(p: Params) -> dict[str, TunedValue]:
+    return {"turns": ("number", p.turns), "coil_length": ("length", p.turns * p.pitch_mm)}
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 False)
+                 tuned_keys)

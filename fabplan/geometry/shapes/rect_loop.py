@@ -10,10 +10,10 @@ from __future__ import annotations
 import dataclasses
 from dataclasses import dataclass
 
-from ...config import Section
 from ...errors import DesignError, Finding
+from ...section import Section
 from ..path import BendPath
-from .base import ShapeSpec, gap_and_offset
+from .base import ShapeSpec, TunedValue, gap_and_offset
 from .polygon import polygon_straights, rounded_polygon
 
 NAME = "rect-loop"
@@ -91,5 +91,13 @@ def with_governing(p: Params, value: float) -> Params:
 
 KEYS = ("side", "width", "height", "corner_radius", "feed_gap", "feed_offset", "feed_side")
 
+def tuned_keys(p: Params) -> dict[str, TunedValue]:
+    out: dict[str, TunedValue] = {"width": ("length", p.width_mm),
+                                  "height": ("length", p.height_mm)}
+    if abs(p.width_mm - p.height_mm) < 1e-9:
+        out["side"] = ("length", p.width_mm)
+    return out
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 True)
+                 tuned_keys)

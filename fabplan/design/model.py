@@ -1,0 +1,89 @@
+"""The validated design: frozen dataclasses, lengths in millimetres.
+
+A `Design` is what the design file says, checked key by key: the elements to
+build (each a shape with its dimensions, a quantity, and optionally its own
+stock and a placement in the assembly's frame), the stock they are bent from,
+the shop's habits, and the settings of each later stage (forming, purchase,
+jig, electrical). Nothing here computes a figure; `fabplan.plan.make_plan`
+turns a Design into a Plan.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import TYPE_CHECKING, Any
+
+from ..geometry.placement import Placement
+from ..stock.materials import Material
+from ..stock.profiles import Profile
+from ..units import LengthUnit
+
+if TYPE_CHECKING:  # pragma: no cover
+    from .electrical import ElectricalSettings
+    from .forming import FormingSettings
+    from .jig import JigSettings
+    from .purchase import PurchaseSettings
+
+__all__ = ["Design", "ElementSpec", "StockSpec", "Shop"]
+
+
+@dataclass(frozen=True)
+class StockSpec:
+    """The conductor stock: its material, cross-section and where they come from."""
+
+    material: Material
+    profile: Profile
+    description: str
+    source: str
+    catalogue: str | None = None
+    k_factor: float = 0.5
+    k_factor_given: bool = False
+
+
+@dataclass(frozen=True)
+class Shop:
+    """Shop habits: display units, fraction precision, saw kerf, trim per end (mm)."""
+
+    units: LengthUnit = "in"
+    fraction: int = 32
+    kerf_mm: float = 0.0
+    trim_mm: float = 0.0
+
+
+@dataclass(frozen=True)
+class ElementSpec:
+    """One element to build: a shape with its dimensions, and how many.
+
+    `params` is the shape's own frozen dataclass (see fabplan.geometry.shapes).
+    `stock` overrides the design's stock for this element (None: the design's);
+    `placement` puts the element's frame into the assembly's frame.
+    """
+
+    name: str
+    shape: str
+    params: Any
+    quantity: int = 1
+    trim_mm: float | None = None  # per end; None: the shop's
+    stock: StockSpec | None = None
+    placement: Placement = Placement()
+
+
+@dataclass(frozen=True)
+class Design:
+    """The validated input: lengths in mm, nothing else."""
+
+    project: str
+    elements: tuple[ElementSpec, ...]
+    stock: StockSpec
+    shop: Shop
+    source: str = "<design>"
+    forming: FormingSettings | None = None
+    purchase: PurchaseSettings | None = None
+    jig: JigSettings | None = None
+    electrical: ElectricalSettings | None = None
+    notes: str = ""
+    raw: dict[str, Any] = field(default_factory=dict, compare=False, repr=False)
+
+    def stock_of(self, element: ElementSpec) -> StockSpec:
+        """The stock an element is bent from: its own, or the design's."""
+        return element.stock if element.stock is not None else self.stock

@@ -1,0 +1,151 @@
+"""Reading a frequency sweep: least SWR, resonance, bandwidths.
+
+`analyse(model, chain, freqs)` sweeps a model through the matching chain and
+finds the frequency of least SWR (refined by Brent's bounded minimiser between
+the grid's neighbours), the resonance (the reactance's zero crossing nearest a
+given frequency, refined by Brent's root finder) and the SWR bandwidths.
+
+Pure: no files, no printing. Hz, ohm.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Callable
+from typing import Any, Protocol
+
+import numpy as np
+
+from ..feed import MatchChain
+from .records import UNCERTAINTY_FRAC, SweepResult
+
+__all__ = ["Model", "Progress", "least_swr", "resonance", "bandwidths", "analyse", "SWR_LEVELS",
+           "CHUNK"]
+
+Progress = Callable[[int], None]
+SWR_LEVELS = ("1.5", "2")
+CHUNK = 8  # frequencies per solver call between progress reports
+
+
+class Model(Protocol):
+    """What a sweep needs of an electrical model."""
+
+    unknowns: int
+
+    def sweep(self, f_hz: np.ndarray) -> np.ndarray: ...
+
+    def impedance(self, f_hz: float) -> complex: ...
+
+    def solve(self, f_hz: float) -> Any: ...
+
+
+def _sweep(model: Model, freqs: np.ndarray, progress: Progress | None) -> np.ndarray:
+    if progress is None:
+        return np.asarray(model.sweep(freqs), dtype=complex)
+    out = []
+    for i in range(0, len(freqs), CHUNK):
+        part = freqs[i:i + CHUNK]
+        out.append(np.asarray(model.sweep(part), dtype=complex))
+        progress(len(part))
+    return np.concatenate(out)
+
+
+def _gamma_sys(model: Model, chain: MatchChain, f: float) -> float:
+    z = complex(chain.at_radio(model.impedance(f), f))
+    return abs((z - chain.system_ohm) / (z + chain.system_ohm))
+
+
+def least_swr(model: Model, chain: MatchChain, freqs: np.ndarray, swr_sys: np.ndarray,
+              rel_tol: float = 2e-6) -> tuple[float, float, bool]:
+    """Frequency (Hz) and value of least SWR through the matching, refined
+    between the sweep's neighbours of its lowest point by bounded Brent search.
+    Returns (f, swr, at_edge); at_edge when the lowest point is a sweep end."""
+    from scipy.optimize import minimize_scalar
+
+    i = int(np.argmin(swr_sys))
+    if i == 0 or i == len(freqs) - 1:
+        return float(freqs[i]), float(swr_sys[i]), True
+    lo, hi = float(freqs[i - 1]), float(freqs[i + 1])
+    res = minimize_scalar(lambda f: _gamma_sys(model, chain, f), bounds=(lo, hi),
+                          method="bounded", options={"xatol": rel_tol * freqs[i]})
+    g = float(res.fun)
+    s = (1 + g) / (1 - g) if g < 1 else math.inf
+    if s > swr_sys[i]:  # the grid point itself is better (a kink): keep it
+        return float(freqs[i]), float(swr_sys[i]), False
+    return float(res.x), s, False
+
+
+def resonance(model: Model, freqs: np.ndarray, z: np.ndarray, near_hz: float,
+              rel_tol: float = 1e-7) -> float | None:
+    """The reactance zero crossing nearest `near_hz` (Hz), refined by Brent's
+    method; crossings from capacitive to inductive (series resonance) first."""
+    from scipy.optimize import brentq
+
+    x = z.imag
+    idx = np.nonzero(np.sign(x[:-1]) * np.sign(x[1:]) <= 0)[0]
+    if len(idx) == 0:
+        return None
+    rising = [i for i in idx if x[i] < x[i + 1]]
+    pool = rising or list(idx)
+    i = min(pool, key=lambda k: abs(0.5 * (freqs[k] + freqs[k + 1]) - near_hz))
+    if x[i] == 0:
+        return float(freqs[i])
+    if x[i + 1] == 0:
+        return float(freqs[i + 1])
+    return float(brentq(lambda f: model.impedance(f).imag, float(freqs[i]),
+                        float(freqs[i + 1]), xtol=rel_tol * float(freqs[i])))
+
+
+def _crossing(f: np.ndarray, s: np.ndarray, level: float, i: int, step: int) -> float | None:
+    """Walk from index i by `step` until s exceeds `level`; interpolate the crossing."""
+    j = i
+    while 0 <= j + step < len(f):
+        k = j + step
+        if s[k] > level:
+            if not math.isfinite(s[k]):
+                return float(f[k])
+            t = (level - s[j]) / (s[k] - s[j])
+            return float(f[j] + t * (f[k] - f[j]))
+        j = k
+    return None
+
+
+def bandwidths(freqs: np.ndarray, swr_sys: np.ndarray) -> dict[str, tuple[float, float] | None]:
+    """Edges (Hz) of the band around least SWR where SWR stays below each level."""
+    i = int(np.argmin(swr_sys))
+    out: dict[str, tuple[float, float] | None] = {}
+    for key in SWR_LEVELS:
+        level = float(key)
+        if swr_sys[i] >= level:
+            out[key] = None
+            continue
+        lo, hi = _crossing(freqs, swr_sys, level, i, -1), _crossing(freqs, swr_sys, level, i, 1)
+        out[key] = None if lo is None or hi is None else (lo, hi)
+    return out
+
+
+def analyse(model: Model, chain: MatchChain, freqs: np.ndarray, *, progress: Progress | None = None,
+            near_hz: float | None = None, efficiency: bool = True
+            ) -> tuple[SweepResult, dict[str, tuple[float, float] | None], bool]:
+    """Sweep `model` over `freqs` (Hz) and read the sweep through `chain`.
+
+    Returns the SweepResult, the edges (Hz) of each SWR band, and whether least
+    SWR lies at an end of the sweep.
+    """
+    freqs = np.asarray(freqs, dtype=float)
+    z = _sweep(model, freqs, progress)
+    s_term = np.atleast_1d(chain.swr_terminals(z))
+    s_sys = np.atleast_1d(chain.swr_system(z, freqs))
+    f_min, s_min, at_edge = least_swr(model, chain, freqs, s_sys)
+    f_res = resonance(model, freqs, z, near_hz if near_hz is not None else f_min)
+    edges = bandwidths(freqs, s_sys)
+    eff = model.solve(f_min).efficiency if efficiency else None
+    result = SweepResult(
+        tuple(float(f) for f in freqs), tuple(complex(v) for v in z),
+        tuple(float(v) for v in s_term), tuple(float(v) for v in s_sys),
+        chain.reference_ohm, chain.system_ohm, chain.describe(), s_min, f_min, f_res,
+        {k: (None if e is None else e[1] - e[0]) for k, e in edges.items()},
+        None if eff is None else float(eff), UNCERTAINTY_FRAC)
+    return result, edges, at_edge
+
+

@@ -1,0 +1,267 @@
+"""The base plate of a flat piece's bending jig.
+
+Everything the builder works against is engraved at true size: the
+conductor's centreline and outline, the former outlines with their bolt
+holes, the marks (stock centre, feed-gap ends, bend starts and ends) with
+their labels, hold-down pin holes both sides of each straight run, a label
+block and the datum of the element's coordinates. Every figure comes from the
+Plan; the plate only places pins and labels clear of everything else.
+
+Plate outline: the convex outline of everything on the plate grown by the
+margin (or the bounding rectangle when that costs under 15 % more area), with
+rounded corners and mounting holes. A plate larger than the bed is split
+(see split.py).
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Any
+
+from ..design.jig import JigSettings
+from ..errors import Finding
+from ..geometry.planar import conductor_caps, conductor_edges, planar_centreline
+from ..units import format_drawing_length, wrap_words
+from .parts import RECTANGLE_PREFERENCE, Board, fits, former_parts, hole, plate, text_box
+from .records import JigPiece, Part
+from .shapes import (
+    Arc,
+    Circle,
+    Contour,
+    Item,
+    Line,
+    P,
+    RefPoint,
+    Text,
+    contour_to_polygon,
+    offset_contour,
+)
+from .split import split_plate
+
+__all__ = ["plate_parts"]
+
+
+def _normal(t: P) -> P:
+    return (-t[1], t[0])
+
+
+def _conductor_items(segs: list[Line | Arc], d: float) -> list[Item]:
+    """Engraved centreline and outline (both sides and the end faces)."""
+    items: list[Item] = []
+    for seg in segs:
+        items.append(Item("engrave", seg, "centreline"))
+        items += [Item("engrave", edge, "outline") for edge in conductor_edges(seg, d)]
+    items += [Item("engrave", cap, "outline") for cap in conductor_caps(segs, d)]
+    return items
+
+
+def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], list[Finding]]:
+    from shapely.geometry import LineString, Point, box
+    from shapely.ops import unary_union
+
+    f = e.forming
+    d = e.conductor_diameter_mm
+    g = s.kerf_mm / 2
+    findings: list[Finding] = []
+    segs = planar_centreline(e.path)
+    pts, _ = e.path.sample(0.5)
+    centreline = LineString([(p[0], p[1]) for p in pts])
+    # the footprint for clearances: a coarser polyline, widened by its chord error
+    step = max(1.0, d)
+    coarse, _ = e.path.sample(step)
+    sag = min((step * step / (8 * b.radius_mm) for b in e.path.bends), default=0.0)
+    conductor = LineString([(p[0], p[1]) for p in coarse]).buffer(d / 2 + sag,
+                                                                   cap_style="flat",
+                                                                   quad_segs=4)
+    items: list[Item] = _conductor_items(segs, d)
+    discs = []
+    for fm in f.formers:
+        c = (fm.centre_mm[0], fm.centre_mm[1])
+        items.append(Item("engrave", Circle(c, fm.radius_mm), f"former-outline {fm.label}"))
+        items.append(hole(c, s.bolt_hole_mm, g, f"bolt-hole {fm.label}"))
+        discs.append(Point(c).buffer(fm.radius_mm))
+    keep_out = [conductor, *discs]
+    # hold-down pins: both sides of each straight run, tangent to the conductor
+    pin_r = s.pin_diameter_mm / 2
+    off = d / 2 + pin_r
+    pins: list = []
+    reach = d / 2 + 2.0  # half-length of an engraved mark across the conductor
+    ticks = []
+    for m in f.jig_marks:
+        nx, ny = _normal(m.direction)
+        p = m.point_mm
+        ticks.append(LineString([(p[0] - reach * nx, p[1] - reach * ny),
+                                 (p[0] + reach * nx, p[1] + reach * ny)]))
+    for seg in segs:
+        if not isinstance(seg, Line) or seg.length < s.pin_diameter_mm:
+            continue
+        t = seg.tangent_in()
+        nx, ny = _normal(t)
+        clear = pin_r + 2.0
+        usable = seg.length - 2 * clear
+        count = 1 if usable <= 0 else int(usable // s.pin_pitch_mm) + 1
+        for j in range(count):
+            along = seg.length / 2 + (j - (count - 1) / 2) * s.pin_pitch_mm
+            base = (seg.start[0] + along * t[0], seg.start[1] + along * t[1])
+            for side in (1, -1):
+                c = (base[0] + side * off * nx, base[1] + side * off * ny)
+                disc = Point(c).buffer(pin_r + 1.0)
+                if centreline.distance(Point(c)) < off - 0.01:
+                    continue
+                if any(disc.intersects(x) for x in discs):
+                    continue
+                if any(Point(c).distance(Point(q)) < 2 * pin_r + 2.0 for q in pins):
+                    continue
+                if any(t.distance(Point(c)) < pin_r + 1.5 for t in ticks):
+                    continue  # a pin would hide a mark
+                pins.append(c)
+    for c in pins:
+        items.append(hole(c, s.pin_diameter_mm, g, "pin-hole"))
+        keep_out.append(Point(c).buffer(pin_r))
+    # engraved marks across the conductor, labelled beside it
+    th = max(2.0, 0.7 * s.text_height_mm)
+    texts = []
+    blocked = unary_union([*keep_out, box(-6.0, -6.0, 11.0, 6.0)])  # and the datum cross
+    for m in f.jig_marks:
+        p = (m.point_mm[0], m.point_mm[1])
+        nx, ny = _normal(m.direction)
+        items.append(Item("engrave", Line((p[0] - reach * nx, p[1] - reach * ny),
+                                          (p[0] + reach * nx, p[1] + reach * ny)),
+                          f"mark {m.kind}: {m.label}"))
+        for extra, side in ((0.0, 1), (0.0, -1), (1.5 * th, 1), (1.5 * th, -1), (3 * th, 1),
+                            (3 * th, -1)):
+            txt = Text((0.0, 0.0), m.label, th)
+            extent = (th / 2 if abs(ny) > 0.5 else txt.width / 2) + 1.0
+            dist = d / 2 + s.pin_diameter_mm + 1.0 + extent + extra
+            cx, cy = p[0] + side * dist * nx, p[1] + side * dist * ny
+            txt = Text((cx - txt.width / 2, cy - th / 2), m.label, th)
+            boxed = text_box(txt)
+            if boxed.intersects(blocked) or any(boxed.intersects(b) for b in texts):
+                continue
+            items.append(Item("engrave", txt, "mark-label"))
+            texts.append(boxed)
+            break
+    # the label block under everything
+    body = unary_union([*keep_out, *texts])
+    x0, y0, x1, y1 = body.bounds
+    h = s.text_height_mm
+    room = min(x1 - x0, max(s.bed_mm) - 2 * (s.part_gap_mm + s.margin_mm) - 20.0)
+    lines = _label_lines(project, e, s, max(30, int(room / (0.62 * h))))
+    label_at = (x0, y0 - 4.0 - h)
+    first_label = len(texts)
+    y = y0 - 4.0 - h
+    for text in lines:
+        txt = Text((x0, y), text, h)
+        items.append(Item("engrave", txt, "label"))
+        texts.append(text_box(txt))
+        y -= 1.6 * h
+    # datum: the origin of the element's coordinates, and a point 10 mm along +x
+    items.append(Item("reference", RefPoint((0.0, 0.0), "datum"), "datum"))
+    items.append(Item("reference", RefPoint((10.0, 0.0), "datum +x"), "datum +x"))
+    items.append(Item("reference", Line((-5.0, 0.0), (10.0, 0.0)), "datum"))
+    items.append(Item("reference", Line((0.0, -5.0), (0.0, 5.0)), "datum"))
+    everything = unary_union([body, *texts, Point(0, 0).buffer(10)])
+    bx0, by0, bx1, by1 = everything.bounds
+    m = s.margin_mm
+    usable = (s.bed_mm[0] - 2 * s.part_gap_mm, s.bed_mm[1] - 2 * s.part_gap_mm)
+    parts: list[Part] = []
+    # the convex outline of everything on the plate grown by the margin, when it
+    # saves material over the simpler rectangle
+    hull = _hull_plate(e, s, everything, items)
+    rect = (bx0 - m, by0 - m, bx1 + m, by1 + m)
+    rect_area = (rect[2] - rect[0]) * (rect[3] - rect[1])
+    if hull is not None and fits(hull, usable) and \
+            hull.outline.area * RECTANGLE_PREFERENCE < rect_area:
+        parts.append(hull)
+    else:
+        # a rectangle, cut into pieces that fit the bed
+        inset = m / 2
+        for cx, cy in ((rect[0] + inset, rect[1] + inset), (rect[2] - inset, rect[1] + inset),
+                       (rect[2] - inset, rect[3] - inset), (rect[0] + inset, rect[3] - inset)):
+            items.append(hole((cx, cy), s.mounting_hole_mm, g, "mounting-hole"))
+        mounting = [Point(it.shape.centre).buffer(s.mounting_hole_mm / 2) for it in items
+                    if it.role == "mounting-hole"]
+        board = Board(items, keep_out + mounting + [box(*t.bounds) for t in texts], texts,
+                       label_at, tuple(texts[first_label:]))
+        plate_ = plate(e.name, "plate", f"{e.name}: base plate", items, rect, s,
+                       (s.corner_radius_mm,) * 4)
+        if fits(plate_, usable):
+            parts.append(plate_)
+        else:
+            split, found = split_plate(e, s, board, rect, usable)
+            parts.extend(split)
+            findings.extend(found)
+    parts.extend(former_parts(e, s))
+    return parts, findings
+
+
+def _hull_plate(e: JigPiece, s: JigSettings, everything: Any, items: list[Item]) -> Part | None:
+    """The plate as the convex outline of everything on it, grown by the margin:
+    straight edges and true arcs of the corner radius. Mounting holes go in the
+    margin at the sharpest corners. None when the outline degenerates."""
+    from shapely.geometry import Point
+    from shapely.geometry.polygon import orient
+
+    tol = 0.5  # mm: simplifying the hull may cut inside it by this much
+    hull = orient(everything.convex_hull.simplify(tol), 1.0)
+    if hull.geom_type != "Polygon" or len(hull.exterior.coords) < 4:
+        return None
+    pts = [(float(x), float(y)) for x, y in hull.exterior.coords[:-1]]
+    n = len(pts)
+    r = min(s.corner_radius_mm, s.margin_mm)
+    normals = []
+    for i in range(n):
+        (ax, ay), (bx, by) = pts[i], pts[(i + 1) % n]
+        ln = math.hypot(bx - ax, by - ay)
+        normals.append(((by - ay) / ln, -(bx - ax) / ln))  # outward, counter-clockwise
+    # mitred offset by (margin - r + tol), then round corners of radius r
+    dist = s.margin_mm - r + tol
+    corners = []
+    for i in range(n):
+        n1, n2 = normals[i - 1], normals[i]
+        k = dist / (1.0 + n1[0] * n2[0] + n1[1] * n2[1])
+        corners.append((pts[i][0] + k * (n1[0] + n2[0]), pts[i][1] + k * (n1[1] + n2[1])))
+    nominal = Contour(tuple(Line(corners[i], corners[(i + 1) % n]) for i in range(n)))
+    outline = offset_contour(nominal, r + s.kerf_mm / 2)
+    # mounting holes: half the margin in from both edges at the sharpest corners
+    turns = sorted(range(n), key=lambda i: -math.acos(max(-1.0, min(1.0, normals[i - 1][0]
+                   * normals[i][0] + normals[i - 1][1] * normals[i][1]))))
+    holes: list[P] = []
+    for i in turns:
+        n1, n2 = normals[i - 1], normals[i]
+        k = (s.margin_mm / 2) / (1.0 + n1[0] * n2[0] + n1[1] * n2[1])
+        c = (pts[i][0] + k * (n1[0] + n2[0]), pts[i][1] + k * (n1[1] + n2[1]))
+        if all(math.dist(c, h) > 6 * s.mounting_hole_mm for h in holes) and \
+                not everything.intersects(Point(c).buffer(s.mounting_hole_mm)):
+            holes.append(c)
+        if len(holes) == 4:
+            break
+    g = s.kerf_mm / 2
+    plate_items = [Item("cut", outline, "outline"), *items,
+                   *(hole(c, s.mounting_hole_mm, g, "mounting-hole") for c in holes)]
+    return Part(f"{e.name}: base plate", "plate", e.name, tuple(plate_items),
+                contour_to_polygon(outline))
+
+
+def _label_lines(project: str, e: JigPiece, s: JigSettings, width: int) -> list[str]:
+    f = e.forming
+    units = s.units
+    lines = [f"{e.name} - bending jig, full size ({project})",
+             f"stock: {e.stock_description}"]
+    for fm in f.formers:
+        bends = ", ".join(str(i) for i in fm.bend_indices)
+        lines.append(f"former {fm.label}: dia {format_drawing_length(2 * fm.radius_mm, units)}, "
+                     f"bend(s) {bends}, "
+                     f"wrap {fm.wrap_deg:.1f} deg")
+    for b in f.bends:
+        lines.append(f"bend {b.index}: bend to {b.overbend_deg:.1f} deg "
+                     f"(springback {b.springback_deg:.1f} deg), former radius "
+                     f"{format_drawing_length(b.former_radius_mm, units)}")
+    for (a, b), sp in zip(zip(f.formers, f.formers[1:]), f.former_spacing_mm):
+        lines.append(f"former spacing {a.label}-{b.label}: {format_drawing_length(sp, units)} "
+                     "centre to centre")
+    lines.append("check the 100 mm and 4 in squares before use")
+    out: list[str] = []
+    for line in lines:
+        out.extend(wrap_words(line, width))
+    return out

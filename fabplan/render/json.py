@@ -1,0 +1,289 @@
+"""The Plan as JSON: every figure in millimetres, kilograms, degrees, hertz, ohms.
+
+`plan_to_dict` reads the Plan and nothing else; each stage's section is one
+function here. Numbers are rounded for reading (`num`), never for computing.
+"""
+
+from __future__ import annotations
+
+import json
+import math
+from typing import Any
+
+from ..em.records import ElementElectrical, PlanElectrical, SweepResult
+from ..estimate.records import ElementEstimate, Order
+from ..forming.records import ElementForming
+from ..lengths.records import PieceCore
+from ..plan import ElementPlan, Plan
+from ..stock.profiles import Profile, Round, Tube
+
+__all__ = ["plan_to_dict", "plan_to_json", "num", "profile_dict", "order_dict", "sweep_dict"]
+
+
+def num(x: float | None, places: int = 4, *, sig: int | None = None) -> float | None:
+    """A JSON-safe figure: rounded to `places` decimals (or to `sig` significant
+    digits), never "-0.0"; None for a missing or infinite figure."""
+    if x is None or not math.isfinite(x):
+        return None
+    v = float(f"{float(x):.{sig}g}") if sig is not None else round(float(x), places)
+    return 0.0 if v == 0 else v
+
+
+def _vec(v: tuple[float, ...]) -> list[float | None]:
+    return [num(c) for c in v]
+
+
+def profile_dict(profile: Profile) -> dict[str, Any]:
+    if isinstance(profile, Round):
+        return {"profile": "round", "diameter_mm": num(profile.diameter_mm)}
+    if isinstance(profile, Tube):
+        return {"profile": "tube", "od_mm": num(profile.od_mm), "wall_mm": num(profile.wall_mm)}
+    return {"profile": "strip", "width_mm": num(profile.width_mm),
+            "thickness_mm": num(profile.thickness_mm)}
+
+
+def _piece_core(p: PieceCore, gap_mm: float | None) -> dict[str, Any]:
+    return {
+        "centreline_length_mm": num(p.centreline_length_mm),
+        "developed_length_mm": num(p.developed_length_mm),
+        "trim_per_end_mm": num(p.trim_mm),
+        "cut_length_mm": num(p.cut_length_mm),
+        "feed_gap_mm": num(gap_mm),
+        "tail_straight_mm": num(p.tail_straight_mm),
+        "planar": p.planar,
+        "mass_kg": num(p.mass_kg, 5),
+        "bends": [{
+            "index": b.index,
+            "straight_before_mm": num(b.straight_before_mm),
+            "rotation_deg": num(b.rotation_deg),
+            "angle_deg": num(b.angle_deg),
+            "centreline_radius_mm": num(b.centreline_radius_mm),
+            "neutral_radius_mm": num(b.neutral_radius_mm),
+            "pitch_mm": num(b.pitch_mm),
+            "arc_length_mm": num(b.arc_length_mm),
+            "start_from_centre_mm": num(b.start_from_centre_mm),
+            "end_from_centre_mm": num(b.end_from_centre_mm),
+            "start_from_end_mm": num(b.start_from_end_mm),
+            "end_from_end_mm": num(b.end_from_end_mm),
+            "start_point_mm": _vec(b.start_point),
+            "end_point_mm": _vec(b.end_point),
+        } for b in p.bends],
+        "marks": [{"label": m.label, "kind": m.kind, "from_centre_mm": num(m.from_centre_mm),
+                   "from_end_mm": num(m.from_end_mm)} for m in p.marks],
+    }
+
+
+def forming_dict(f: ElementForming, d: dict[str, Any]) -> None:
+    """Merge the per-bend forming figures into d["bends"] (by index) and add d["forming"]."""
+    by_index = {b.index: b for b in f.bends}
+    for row in d.get("bends", []):
+        b = by_index.get(row.get("index"))  # type: ignore[arg-type]
+        if b is None:
+            continue
+        row.update({
+            "former_radius_mm": num(b.former_radius_mm),
+            "former_centreline_radius_mm": num(b.former_centreline_radius_mm),
+            "overbend_deg": num(b.overbend_deg),
+            "springback_deg": num(b.springback_deg),
+            "final_radius_mm": num(b.final_radius_mm),
+            "final_angle_deg": num(b.final_angle_deg),
+            "outer_strain": num(b.outer_strain, 6),
+            "forming_method": b.method,
+        })
+    d["forming"] = {
+        "method": f.method,
+        "model": f.model,
+        "effective_yield_mpa": num(f.effective_yield_mpa),
+        "calibrated": f.calibrated,
+        "elastic_limit_radius_mm": num(f.elastic_limit_radius_mm),
+        "formers": [{"label": fm.label, "bends": list(fm.bend_indices),
+                     "centre_mm": [num(c) for c in fm.centre_mm],
+                     "radius_mm": num(fm.radius_mm), "diameter_mm": num(2 * fm.radius_mm),
+                     "wrap_deg": num(fm.wrap_deg)} for fm in f.formers],
+        "former_spacing_mm": [num(x) for x in f.former_spacing_mm],
+        "jig_marks": [{"label": m.label, "kind": m.kind,
+                       "point_mm": [num(c) for c in m.point_mm],
+                       "direction": [num(c, 6) for c in m.direction]}
+                      for m in f.jig_marks],
+        "tool_marks": [{"step": t.step, "bend": t.bend_index,
+                        "from_centre_mm": num(t.from_centre_mm),
+                        "from_end_mm": num(t.from_end_mm),
+                        "from_end_b_mm": num(t.from_end_b_mm),
+                        "tool_reference": t.tool_reference,
+                        "bend_to_deg": num(t.bend_to_deg),
+                        "setback_mm": num(t.setback_mm), "gain_mm": num(t.gain_mm),
+                        "grip_mm": num(t.grip_mm)} for t in f.tool_marks],
+        "bend_order": list(f.bend_order),
+        "splay_if_ignored_mm": num(f.splay_if_ignored_mm),
+        "limits": [{"bend": x.index, "d_of_bend": num(x.d_of_bend),
+                    "wall_factor": num(x.wall_factor), "outer_strain": num(x.outer_strain, 6),
+                    "elongation": num(x.elongation), "wall_outside_mm": num(x.wall_outside_mm),
+                    "wall_inside_mm": num(x.wall_inside_mm),
+                    "min_radius_mm": num(x.min_radius_mm),
+                    "min_radius_basis": x.min_radius_basis} for x in f.limits],
+        "notes": list(f.notes),
+    }
+
+
+def _estimate(e: ElementEstimate, d: dict[str, Any]) -> None:
+    d["weight_kg"] = num(e.weight_kg, 5)
+    d["cost"] = num(e.cost, 2)
+    d["estimate"] = {
+        "spares": e.spares,
+        "pieces_to_cut": e.quantity + e.spares,
+        "batch_weight_kg": num(e.batch_weight_kg, 5),
+        "batch_cost": num(e.batch_cost, 2),
+        "currency": None if e.currency is None else e.currency.label,
+    }
+
+
+def sweep_dict(s: SweepResult) -> dict[str, Any]:
+    return {
+        "reference_ohm": num(s.reference_ohm, 6),
+        "system_ohm": num(s.system_ohm, 6),
+        "matching": s.matching,
+        "min_swr": num(s.min_swr, 4),
+        "min_swr_hz": num(s.min_swr_hz, 1),
+        "resonance_hz": num(s.resonance_hz, 1),
+        "bandwidth_hz": {k: num(v, 1) for k, v in s.bandwidth_hz.items()},
+        "efficiency": num(s.efficiency, 5),
+        "uncertainty_frac": s.uncertainty_frac,
+        "points": [{"f_hz": num(f, 1), "r_ohm": num(z.real, 4), "x_ohm": num(z.imag, 4),
+                    "swr_terminals": num(st, 4), "swr_system": num(ss, 4)}
+                   for f, z, st, ss in zip(s.freq_hz, s.z_ohm, s.swr_terminals,
+                                           s.swr_system)],
+    }
+
+
+def _electrical(el: ElementElectrical, d: dict[str, Any]) -> None:
+    out: dict[str, Any] = {"target_hz": num(el.target_hz, 1), "unknowns": el.unknowns}
+    out.update(sweep_dict(el.sweep))
+    out.update({
+        "bandwidth_edges_hz": {k: (None if e is None else [e[0], e[1]])
+                               for k, e in el.bandwidth_edges_hz.items()},
+        "least_swr_at_sweep_end": el.least_swr_at_sweep_end,
+        "geometry": el.geometry,
+        "released_radii": el.released_radii,
+        "conductor_radius_mm": num(el.conductor_radius_mm, 6),
+        "tube_wall_mm": num(el.tube_wall_mm, 6),
+        "resistivity_ohm_m": num(el.resistivity_ohm_m, sig=6),
+        "ground": el.ground,
+        "ground_height_mm": num(el.ground_height_mm, 6),
+        "notes": list(el.notes),
+    })
+    d["electrical"] = out
+
+
+def _plan_electrical(pe: PlanElectrical) -> dict[str, Any]:
+    return {
+        "matching": pe.matching,
+        "ground": pe.ground,
+        "real_ground_modelled": pe.real_ground_modelled,
+        "balun_loop_cut_length_mm": num(pe.balun_loop_cut_length_mm, 3),
+        "balun_cable": pe.balun_cable,
+        "feed_line_loss_db": num(pe.feed_line_loss_db, 4),
+        "power_w": num(pe.power_w, 6),
+        "uncertainty_frac": pe.uncertainty_frac,
+        "cautions": list(pe.cautions),
+    }
+
+
+def element_dict(e: ElementPlan) -> dict[str, Any]:
+    d: dict[str, Any] = {"name": e.name, "shape": e.spec.shape, "quantity": e.quantity}
+    if len(e.pieces) == 1:
+        piece = e.pieces[0]
+        d.update(_piece_core(piece, e.feed_gap_mm))
+        if piece.forming is not None:
+            forming_dict(piece.forming, d)
+    else:
+        d.update({"developed_length_mm": num(e.developed_length_mm),
+                  "cut_length_mm": num(e.cut_length_mm), "feed_gap_mm": num(e.feed_gap_mm),
+                  "mass_kg": num(e.mass_kg, 5)})
+        pieces = []
+        for piece in e.pieces:
+            pd: dict[str, Any] = {"label": piece.label, **_piece_core(piece, piece.gap_mm)}
+            if piece.forming is not None:
+                forming_dict(piece.forming, pd)
+            pieces.append(pd)
+        d["pieces"] = pieces
+    if e.estimate is not None:
+        _estimate(e.estimate, d)
+    if e.electrical is not None:
+        _electrical(e.electrical, d)
+    return d
+
+
+def order_dict(o: Order) -> dict[str, Any]:
+    return {
+        "currency": None if o.currency is None else o.currency.label,
+        "kerf_mm": num(o.kerf_mm),
+        "offers": [{"name": f.name, "length_mm": num(f.length_mm), "ends_mm": num(f.ends_mm),
+                    "usable_mm": num(f.usable_mm), "price": f.price, "per": f.per,
+                    "piece_cost": num(c, 2), "source": f.source}
+                   for f, c in zip(o.offers, o.offer_costs)],
+        "buy": [{"offer": b.offer, "length_mm": num(b.length_mm), "count": b.count,
+                 "piece_cost": num(b.piece_cost, 2), "cost": num(b.cost, 2),
+                 "weight_kg": num(b.weight_kg, 5)} for b in o.buy],
+        "pieces_to_buy": o.pieces_to_buy,
+        "stock_pieces": [{
+            "index": p.index, "offer": p.offer, "length_mm": num(p.length_mm),
+            "ends_mm": num(p.ends_mm), "cost": num(p.cost, 2),
+            "cuts": [{"element": c.element, "length_mm": num(c.length_mm),
+                      "start_mm": num(c.start_mm), "spare": c.spare} for c in p.cuts],
+            "used_mm": num(p.used_mm), "remnant_mm": num(p.remnant_mm),
+            "utilisation": num(p.utilisation),
+        } for p in o.pieces],
+        "offcuts_mm": [num(p.remnant_mm) for p in o.pieces if p.remnant_mm > 0],
+        "cuts": o.cut_count,
+        "cut_length_mm": num(o.cut_length_mm),
+        "stock_length_mm": num(o.stock_length_mm),
+        "utilisation": num(o.utilisation),
+        "lower_bound_pieces": o.lower_bound_pieces,
+        "lower_bound_cost": num(o.lower_bound_cost, 2),
+        "proven_optimal": o.proven_optimal,
+        "method": o.method,
+        "items": [{"name": i.name, "quantity": i.quantity,
+                   "weight_each_kg": num(i.weight_each_kg, 5), "price_each": i.price_each,
+                   "weight_kg": num(i.weight_kg, 5), "cost": num(i.cost, 2), "source": i.source}
+                  for i in o.items],
+        "weight_kg": {"elements": num(o.elements_weight_kg, 5), "stock": num(o.stock_weight_kg, 5),
+                      "items": num(o.items_weight_kg, 5), "built": num(o.total_weight_kg, 5),
+                      "shipping": num(o.shipping_weight_kg, 5)},
+        "cost": {"stock": num(o.stock_cost, 2), "items": num(o.items_cost, 2),
+                 "total": num(o.total_cost, 2)},
+        "total_weight_kg": num(o.total_weight_kg, 5),
+        "total_cost": num(o.total_cost, 2),
+    }
+
+
+def plan_to_dict(plan: Plan) -> dict[str, Any]:
+    s = plan.stock
+    design = plan.design
+    out: dict[str, Any] = {
+        "project": design.project,
+        "source": design.source,
+        "units": {"lengths": "mm", "mass": "kg", "angles": "deg"},
+        "shop": {"display_units": design.shop.units, "fraction": design.shop.fraction,
+                 "kerf_mm": num(design.shop.kerf_mm), "trim_per_end_mm": num(design.shop.trim_mm)},
+        "stock": {
+            "description": s.description,
+            **profile_dict(s.profile),
+            "material": s.material_key,
+            "material_name": s.material_name,
+            "material_source": s.material_source,
+            "dimension_source": s.source,
+            "k_factor": s.k_factor,
+            "mass_per_m_kg": num(s.mass_per_m_kg, 6),
+        },
+        "elements": [element_dict(e) for e in plan.elements],
+        "findings": [f.to_dict() for f in plan.findings],
+    }
+    if plan.order is not None:
+        out["order"] = order_dict(plan.order)
+    if plan.electrical is not None:
+        out["electrical"] = _plan_electrical(plan.electrical)
+    return out
+
+
+def plan_to_json(plan: Plan) -> str:
+    return json.dumps(plan_to_dict(plan), indent=2, sort_keys=False, allow_nan=False) + "\n"

@@ -1,0 +1,85 @@
+"""The PDF build sheet: one document that tells a builder everything, in order.
+
+Sections: title block, stock and material, cut list, then per element (and
+per piece of stock) the marks and bend table, the bending steps, a drawing to
+scale and the jig's formers; then the bill of material and cutting plan, the
+electrical check, findings and safety cautions. A stage's section appears
+only when the Plan has it. Every table states its units; every page carries
+its number. The bytes depend only on the Plan (reportlab invariant mode: no
+dates, fixed document id).
+"""
+
+from __future__ import annotations
+
+import io
+from typing import Any
+
+from ... import __version__
+from ...errors import DesignError
+from ...plan import Plan
+from ..fullscale.papers import PT_PER_MM, SHEET_PAPERS, paper_size
+from . import core
+from .context import Context
+from .electrical import electrical
+from .estimate import order
+from .findings import findings, safety
+
+__all__ = ["sheet_pdf"]
+
+
+def sheet_pdf(plan: Plan, paper: str = "a4") -> bytes:
+    """The build sheet of `plan` as PDF bytes (A4 or Letter)."""
+    from reportlab.pdfgen import canvas
+    from reportlab.platypus import KeepTogether, SimpleDocTemplate
+
+    if paper not in SHEET_PAPERS:
+        paper_size(paper)  # unknown paper: its own message
+        raise DesignError("the build sheet prints on a4 or letter", field="--paper",
+                          value=paper)
+    ctx = Context(plan, paper)
+    story: list[Any] = []
+    story += core.title(ctx)
+    story += core.stock(ctx)
+    story += core.cut_list(ctx)
+    for e in plan.elements:
+        story += core.element(ctx, e)
+    story += order(ctx)
+    story += electrical(ctx)
+    story += findings(ctx)
+    story.append(KeepTogether(safety(ctx)))
+
+    project = plan.design.project
+
+    class NumberedCanvas(canvas.Canvas):
+        """Defers pages so that each can say "page N of M"."""
+
+        def __init__(self, *args: Any, **kwargs: Any) -> None:
+            super().__init__(*args, **kwargs)
+            self._pages: list[dict[str, Any]] = []
+
+        def showPage(self) -> None:
+            self._pages.append(dict(self.__dict__))
+            self._startPage()
+
+        def save(self) -> None:
+            total = len(self._pages)
+            for state in self._pages:
+                self.__dict__.update(state)
+                self.setFont("Helvetica", 7.5)
+                self.setFillGray(0.3)
+                y = 8 * PT_PER_MM
+                self.drawString(ctx.margin, y, project[:90])
+                self.drawRightString(ctx.pw - ctx.margin, y,
+                                     f"page {self._pageNumber} of {total}")
+                self.drawCentredString(ctx.pw / 2, y, "build sheet; units on every table")
+                super().showPage()
+            super().save()
+
+    buf = io.BytesIO()
+    doc = SimpleDocTemplate(buf, pagesize=(ctx.pw, ctx.ph), leftMargin=ctx.margin,
+                            rightMargin=ctx.margin, topMargin=ctx.margin,
+                            bottomMargin=ctx.margin, title=f"Build sheet: {project}",
+                            author="fabplan", creator=f"fabplan {__version__}",
+                            subject="fabrication plan", invariant=1, pageCompression=1)
+    doc.build(story, canvasmaker=NumberedCanvas)
+    return buf.getvalue()

@@ -1,0 +1,69 @@
+"""What the tuning use case found, as text: the tuned length and its marks, or the
+change for the next build from a first article's measurement."""
+
+from __future__ import annotations
+
+from ..design.electrical import ElectricalSettings
+from ..design.model import Design
+from ..em.records import UNCERTAINTY_FRAC
+from ..tuning import MeasuredResult, TuneResult
+from ..units import format_frequency, format_length, format_signed_length
+from .text import table
+
+__all__ = ["tune_text", "measured_text"]
+
+
+def _len(mm: float, d: Design) -> str:
+    return format_length(mm, d.shop.units, d.shop.fraction)
+
+
+def _change(mm: float, d: Design) -> str:
+    return format_signed_length(mm, d.shop.units, d.shop.fraction)
+
+
+def tune_text(r: TuneResult, d: Design, settings: ElectricalSettings) -> list[str]:
+    """`fabplan tune`: the tuned length, what it moves, and the new marks."""
+    what = "least SWR through the matching" if r.tune_for == "least-swr" else "resonance (X = 0)"
+    u = 100 * UNCERTAINTY_FRAC
+    lines = [f"Tuning {r.element!r} for {what} at {format_frequency(r.target_hz)}",
+             f"  matching: {settings.chain.describe()}",
+             f"  {r.key}: {_len(r.old_value_mm, d)} -> {_len(r.new_value_mm, d)} "
+             f"(change {_change(r.new_value_mm - r.old_value_mm, d)})",
+             f"  predicted {what}: {format_frequency(r.old_hz)} before, "
+             f"{format_frequency(r.new_hz)} after (each +-{u:.1f} %)",
+             f"  developed length: {_len(r.old_developed_mm, d)} -> "
+             f"{_len(r.new_developed_mm, d)} (change "
+             f"{_change(r.new_developed_mm - r.old_developed_mm, d)})",
+             f"  cut length: {_len(r.old_cut_mm, d)} -> {_len(r.new_cut_mm, d)} (change "
+             f"{_change(r.new_cut_mm - r.old_cut_mm, d)})",
+             f"  ({r.iterations} secant steps, {r.models_built} models)", "",
+             "Marks on the straight stock: from the centre mark, and from cut end A"]
+    rows = [[m.label, _len(m.new_from_centre_mm, d),
+             _change(m.new_from_centre_mm - m.old_from_centre_mm, d),
+             _len(m.new_from_end_mm, d), _change(m.new_from_end_mm - m.old_from_end_mm, d)]
+            for m in r.marks]
+    lines.append(table(["mark", "new from centre", "change", "new from end A", "change"], rows,
+                       "lrrrr"))
+    return lines
+
+
+def measured_text(r: MeasuredResult, d: Design) -> list[str]:
+    """`fabplan tune --measured`: the change for the next build from a measurement."""
+    what = "resonance (X = 0)" if r.tune_for == "resonance" else "least SWR"
+    lines = [f"First article {r.element!r}: {what} measured at "
+             f"{format_frequency(r.measured_hz)}; target {format_frequency(r.target_hz)}",
+             f"  the model predicts {format_frequency(r.model_hz)} for the element as designed "
+             "(+-0.5 %)",
+             f"  model sensitivity: d f / d {r.key} = {r.sensitivity_hz_per_mm / 1e3:.1f} kHz "
+             "per mm", "",
+             f"Change for the next build ({r.key} now {_len(r.value_mm, d)})"]
+    rows = [["model sensitivity", _change(r.change_model_mm, d),
+             _len(r.value_mm + r.change_model_mm, d), _change(r.cut_change_model_mm, d)],
+            ["proportional rule", _change(r.change_proportional_mm, d),
+             _len(r.value_mm + r.change_proportional_mm, d),
+             _change(r.cut_change_proportional_mm, d)]]
+    lines.append(table(["by", f"change in {r.key}", f"new {r.key}", "change in cut length"],
+                       rows, "lrrr"))
+    lines += ["", f"Trust the {'model' if r.trust == 'model' else 'proportional rule'}: "
+              f"{r.advice}"]
+    return lines
