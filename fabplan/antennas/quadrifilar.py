@@ -54,7 +54,7 @@ from .common import require_positive, require_range, wavelength_mm
 __all__ = ["Handedness", "SelfPhasing", "QfhLoop", "QfhDesign", "MastHole", "ArmMark",
            "MastDrilling", "DEFAULT_DIAMETER_TO_HEIGHT", "self_phasing", "quadrature_deg",
            "helix_arm_length_mm", "corner_gain_mm", "qfh_loop", "loop_for_length",
-           "design_qfh", "arm_azimuth_deg", "mast_drilling"]
+           "design_qfh", "arm_azimuth_deg", "radial_straight_mm", "mast_drilling"]
 
 Handedness = Literal["right", "left"]
 HANDEDNESS: tuple[Handedness, ...] = ("right", "left")
@@ -260,6 +260,21 @@ def design_qfh(frequency_hz: float, *, conductor_diameter_mm: float,
                      turns=turns, diameter_to_height=diameter_to_height,
                      conductor_diameter_mm=conductor_diameter_mm, loop_length_wl=loop_length_wl,
                      size_ratio=ratio, large=large, small=small, basis=basis)
+
+
+def radial_straight_mm(loop: QfhLoop, mast_diameter_mm: float) -> float:
+    """Straight length (mm) of one half-radial outside the mast, up to where its corner bend starts.
+
+    D/2 - r - mast/2: from the mast's surface to the bend's tangent point, along
+    the centreline (add what goes inside the mast or into a fitting yourself).
+    """
+    require_positive("mast_diameter_mm", mast_diameter_mm)
+    straight = loop.diameter_mm / 2 - loop.corner_radius_mm - mast_diameter_mm / 2
+    if straight <= 0:
+        raise DesignError("no straight radial is left between the mast and the corner bend: "
+                          "use a thinner mast or a smaller corner radius",
+                          field="mast_diameter_mm", value=mast_diameter_mm)
+    return straight
 
 
 def arm_azimuth_deg(top_azimuth_deg: float, depth_fraction: float, turns: float,

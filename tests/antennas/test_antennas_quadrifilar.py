@@ -19,6 +19,7 @@ from fabplan.antennas.quadrifilar import (
     mast_drilling,
     qfh_loop,
     quadrature_deg,
+    radial_straight_mm,
     self_phasing,
 )
 from fabplan.errors import DesignError
@@ -168,3 +169,11 @@ def test_mast_too_fat_is_refused() -> None:
     d = design_qfh(435e6, conductor_diameter_mm=3.0, size_ratio=1.1)
     with pytest.raises(DesignError, match="mast"):
         mast_drilling(d, d.small.diameter_mm)
+
+
+def test_radial_straight_by_hand() -> None:
+    lp = qfh_loop("large", 300.0, 700.0, 0.5, corner_radius_mm=15.0)
+    # half the diameter, less the bend's setback (r tan 45 = r) and the mast's radius
+    assert radial_straight_mm(lp, 32.0) == pytest.approx(150 - 15 - 16)
+    with pytest.raises(DesignError, match="thinner mast"):
+        radial_straight_mm(lp, 280.0)
