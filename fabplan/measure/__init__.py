@@ -34,6 +34,7 @@ made them; scikit-rf is not a dependency of the project, not even for tests).
 
 from __future__ import annotations
 
+from .csvsweep import ROLE_SETS, ROLES, Role, read_csv_sweep
 from .sweep import (
     FREQUENCY_UNITS,
     MAX_POINTS,
@@ -65,7 +66,10 @@ __all__ = [
     "FREQUENCY_UNITS",
     "MAX_POINTS",
     "MAX_TEXT_CHARS",
+    "ROLES",
+    "ROLE_SETS",
     "MeasuredSweep",
+    "Role",
     "TouchstoneOnePort",
     "check_text_size",
     "decode_sweep_bytes",
@@ -73,6 +77,7 @@ __all__ = [
     "gamma_mag_from_return_loss_db",
     "gamma_mag_from_swr",
     "predicted_touchstone",
+    "read_csv_sweep",
     "read_touchstone",
     "return_loss_db_from_gamma_mag",
     "return_loss_db_from_swr",
