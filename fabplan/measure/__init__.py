@@ -35,6 +35,19 @@ made them; scikit-rf is not a dependency of the project, not even for tests).
 from __future__ import annotations
 
 from .csvsweep import ROLE_SETS, ROLES, Role, read_csv_sweep
+from .deembed import (
+    ABCD,
+    Deembedded,
+    Stage,
+    deembed,
+    embed,
+    feed_line,
+    from_matching,
+    from_transform,
+    line_stage,
+    transformer,
+    two_port,
+)
 from .sweep import (
     FREQUENCY_UNITS,
     MAX_POINTS,
@@ -63,19 +76,28 @@ from .touchstone import (
 )
 
 __all__ = [
+    "ABCD",
     "FREQUENCY_UNITS",
     "MAX_POINTS",
     "MAX_TEXT_CHARS",
     "ROLES",
     "ROLE_SETS",
+    "Deembedded",
     "MeasuredSweep",
     "Role",
+    "Stage",
     "TouchstoneOnePort",
     "check_text_size",
     "decode_sweep_bytes",
+    "deembed",
+    "embed",
+    "feed_line",
+    "from_matching",
+    "from_transform",
     "gamma_from_z",
     "gamma_mag_from_return_loss_db",
     "gamma_mag_from_swr",
+    "line_stage",
     "predicted_touchstone",
     "read_csv_sweep",
     "read_touchstone",
@@ -87,6 +109,8 @@ __all__ = [
     "sweep_from_swr",
     "swr_from_gamma_mag",
     "swr_from_return_loss_db",
+    "transformer",
+    "two_port",
     "write_touchstone",
     "z_from_gamma",
 ]
