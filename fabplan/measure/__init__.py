@@ -34,6 +34,17 @@ made them; scikit-rf is not a dependency of the project, not even for tests).
 
 from __future__ import annotations
 
+from .analysis import (
+    DEFAULT_LEVELS,
+    DEFAULT_WINDOW,
+    Band,
+    BandEdge,
+    LeastSwr,
+    Resonance,
+    SweepAnalysis,
+    analyse,
+    analyse_sweep,
+)
 from .csvsweep import ROLE_SETS, ROLES, Role, read_csv_sweep
 from .deembed import (
     ABCD,
@@ -77,16 +88,25 @@ from .touchstone import (
 
 __all__ = [
     "ABCD",
+    "DEFAULT_LEVELS",
+    "DEFAULT_WINDOW",
     "FREQUENCY_UNITS",
     "MAX_POINTS",
     "MAX_TEXT_CHARS",
     "ROLES",
     "ROLE_SETS",
+    "Band",
+    "BandEdge",
     "Deembedded",
+    "LeastSwr",
     "MeasuredSweep",
+    "Resonance",
     "Role",
     "Stage",
+    "SweepAnalysis",
     "TouchstoneOnePort",
+    "analyse",
+    "analyse_sweep",
     "check_text_size",
     "decode_sweep_bytes",
     "deembed",
