@@ -363,14 +363,14 @@ def _vertex_fit(f: FloatArray, g: FloatArray, i: int, lo: int, hi: int, window: 
     # step: what the fitted parabola makes of a cubic term t/6 (u - u*)^3, doubled
     t = fit.deriv(float(f[i]) + us * h, 3) * h ** 3
     cq = inv @ (u[:, None] ** np.arange(3)).T @ (t / 6 * (u - us) ** 3)
-    u_step = 2 * abs((cq[1] + 2 * cq[2] * us) / (2 * c2))
-    y_step = 2 * abs(cq[0] + cq[1] * us + cq[2] * us * us)
+    u_step = 2 * abs(float((cq[1] + 2 * cq[2] * us) / (2 * c2)))
+    y_step = 2 * abs(float(cq[0] + cq[1] * us + cq[2] * us * us))
     ys = min(max(ys, 0.0), float(g[i]))
     f_step = max(u_step * h, 4 * float(np.finfo(float).eps) * float(f[i]))
     clear = c2 >= CURVATURE_SNR * sig * math.sqrt(max(float(inv[2, 2]), 0.0))
-    return LeastSwr(float(f[i]) + us * h, min(f_step, float(f[hi] - f[lo])), u_noise * h,
-                    _swr_of_g(ys), _swr_spread(ys, y_step), _swr_spread(ys, y_noise),
-                    False), bool(clear)
+    return LeastSwr(float(f[i] + us * h), float(min(f_step, f[hi] - f[lo])),
+                    float(u_noise * h), _swr_of_g(float(ys)), _swr_spread(float(ys), y_step),
+                    _swr_spread(float(ys), y_noise), False), bool(clear)
 
 
 def _least_swr(f: FloatArray, g: FloatArray, window: int) -> LeastSwr:

@@ -63,6 +63,7 @@ from .sweep import (
     ComplexArray,
     FloatArray,
     MeasuredSweep,
+    gamma_from_z,
     sweep_from_gamma_mag,
     sweep_from_s11,
 )
@@ -380,6 +381,5 @@ def deembed(sweep: MeasuredSweep, stages: Sequence[Stage], *, z0_ohm: float | No
             f"frequencies (first at {f[neg[0]] / 1e6:.3f} MHz): the stated loss or length of "
             "what was removed is more than the measurement allows; check them"))
     ref = z0_ohm if z0_ohm is not None else sweep.z0_ohm * ratio
-    out = sweep_from_s11(f, (z - ref) / (z + ref), ref, plane=_plane(stages),
-                         source=sweep.source)
+    out = sweep_from_s11(f, gamma_from_z(z, ref), ref, plane=_plane(stages), source=sweep.source)
     return Deembedded(out, removed, _left(stages), tuple(findings))
