@@ -27,9 +27,10 @@ measuring command alone. It is not taken because: scikit-rf requires pandas
 (84 MB installed) besides numpy and scipy, a large dependency for one file
 format; fabplan needs one-port files only, and errors as one line naming the
 file, line, value and rule, which a general reader does not give; and the
-reader here is about 400 lines written from the published specification and
-tested against files scikit-rf wrote (tests/measure/data/make_reference.py
-made them; scikit-rf is not a dependency of the project, not even for tests).
+reader here (touchstone.py, about 560 lines with its documentation) is written
+from the published specification and tested against files scikit-rf wrote
+(tests/measure/data/make_reference.py made them; scikit-rf is not a dependency
+of the project, not even for tests).
 """
 
 from __future__ import annotations
@@ -69,9 +70,11 @@ from .history import (
 )
 from .sweep import (
     FREQUENCY_UNITS,
+    MAX_LINES,
     MAX_POINTS,
     MAX_TEXT_CHARS,
     MeasuredSweep,
+    check_text,
     check_text_size,
     decode_sweep_bytes,
     gamma_from_z,
@@ -99,6 +102,7 @@ __all__ = [
     "DEFAULT_LEVELS",
     "DEFAULT_WINDOW",
     "FREQUENCY_UNITS",
+    "MAX_LINES",
     "MAX_POINTS",
     "MAX_TEXT_CHARS",
     "ROLES",
@@ -118,6 +122,7 @@ __all__ = [
     "TouchstoneOnePort",
     "analyse",
     "analyse_sweep",
+    "check_text",
     "check_text_size",
     "decode_sweep_bytes",
     "deembed",

@@ -22,16 +22,23 @@ its step bound is the linear-interpolation error theorem,
 e.g. Burden & Faires, Numerical Analysis, the Lagrange interpolation error
 theorem [memory]), divided by the least of the secant slope and the fitted
 slopes |y'| at the two samples to turn a value error into a frequency error
-(y'' and y' from the local fit below). R at resonance is interpolated the same way, its uncertainty
-adding dR/df times the frequency's uncertainty.
+(y'' and y' from the local fit below). R at resonance is interpolated the
+same way, its uncertainty adding dR/df times the frequency's uncertainty.
 
 Least SWR is found on |Gamma|^2, which is a smooth (analytic) function of
-frequency even where |Gamma| and SWR have a sharp dip: the vertex of the
-parabola through the grid minimum and its two neighbours. Its step error,
-from a Taylor expansion of the three-point vertex formula about the true
-minimum (derived here: with y = k/2 u^2 + t/6 u^3 the vertex moves by about
--t h^2 / (6 k)), is |y'''| h^2 / (6 y''); the value's step bound is the
-quadratic-interpolation error |y'''|/6 |(x - x0)(x - x1)(x - x2)| at the vertex.
+frequency even where |Gamma| and SWR have a sharp dip: the vertex of a
+least-squares parabola through the grid minimum and its neighbours. The
+samples fitted are the smallest of QUAD_REGIONS (the minimum and its two
+neighbours first, then the samples within a growing fraction of the way from
+the least |Gamma|^2 to 1) whose fitted curvature stands CURVATURE_SNR standard
+deviations clear of the noise, so that the vertex, a ratio of fitted
+coefficients, is nearly linear in the noise; on a clean sweep that is the
+parabola through three points. Its step error is what the fitted parabola
+makes of the cubic term of the local fit, t/6 (x - x*)^3, doubled to cover the
+estimate of t and higher terms (for three points this is the Taylor expansion
+of the three-point vertex formula about the true minimum, derived here: with
+y = k/2 u^2 + t/6 u^3 the vertex moves by about t h^2 / (6 k)); the value's
+step error likewise.
 
 The bands are found by walking from the grid minimum down and up until
 |Gamma|^2 exceeds the level's ((L - 1)/(L + 1))^2 and interpolating that
@@ -49,7 +56,15 @@ estimate on coarse sweeps. The same fit gives y'' and y''' for the step
 bounds. Noise is propagated to a crossing through the local slope,
 sigma_x = sigma sqrt((1 - t)^2 + t^2) / |y'| (t the interpolation fraction;
 the law of propagation of uncertainty, JCGM 100:2008 (GUM), sec. 5.1 [memory]),
-and to the parabola's vertex through its partial derivatives.
+and to the parabola's vertex through the fit's covariance.
+
+Checked by Monte Carlo (a series R-L-C, complex Gaussian noise on S11, 200 to 300
+sweeps; tests/measure/test_measure_analysis.py): the stated noise matches the
+spread of resonance, R and least-SWR frequency within a factor of about 1.3.
+A known weakness: on dense, noisy sweeps the walk from the minimum stops at the
+first sample across the level, which noise can bring early, so a band edge
+spreads more than stated (about twice, at 401 samples with |S11| noise 0.002
+per component, while agreeing within 1.3 at 41 samples and 0.003).
 """
 
 from __future__ import annotations

@@ -40,7 +40,7 @@ from ..errors import DesignError, did_you_mean
 from .sweep import (
     MAX_POINTS,
     MeasuredSweep,
-    check_text_size,
+    check_text,
     frequency_factor,
     gamma_from_z,
     gamma_mag_from_return_loss_db,
@@ -120,7 +120,7 @@ def read_csv_sweep(text: str, columns: Mapping[str, str | int], *, frequency_uni
     module docstring says); delimiter: ",", ";" or a tab (None: sniff).
     """
     src = source or None
-    check_text_size(len(text), source)
+    check_text(text, source)
     cols = _check_columns(columns, src)
     factor = frequency_factor(frequency_unit, field="frequency_unit", source=src)
     if delimiter is not None and delimiter not in (",", ";", "\t"):

@@ -191,6 +191,10 @@ def _record(obj: object, source: str | None, n: int) -> HistoryRecord:
 def read_history(text: str, source: str = "") -> tuple[HistoryRecord, ...]:
     """The records of a history file's text, in file order."""
     src = source or None
+    if len(text) > MAX_RECORDS * MAX_LINE_CHARS or text.count("\n") > 2 * MAX_RECORDS:
+        raise DesignError(f"a history holds at most {MAX_RECORDS} records of at most "
+                          f"{MAX_LINE_CHARS} characters: start a new file", field="size",
+                          value=f"{len(text)} characters", source=src)
     records: list[HistoryRecord] = []
     text = text.removeprefix("\ufeff")
     for n, line in enumerate(_LINES.split(text), start=1):

@@ -14,8 +14,9 @@ terminated lossless line; equation numbers not cited):
 - return loss             RL = -20 log10 |Gamma|  dB  (a positive figure for a passive load)
 
 Every reader in this package is bounded: a text longer than `MAX_TEXT_CHARS`
-characters or holding more than `MAX_POINTS` frequencies is refused before (or
-as soon as) the bound is passed, with one `DesignError` line.
+characters (32 MiB) or `MAX_LINES` lines (1,000,000) is refused before any line
+is split, and one holding more than `MAX_POINTS` frequencies (200,000) as soon
+as the bound is passed, each with one `DesignError` line.
 """
 
 from __future__ import annotations
@@ -34,6 +35,7 @@ from ..errors import DesignError
 __all__ = [
     "FREQUENCY_FACTORS",
     "FREQUENCY_UNITS",
+    "MAX_LINES",
     "MAX_POINTS",
     "MAX_TEXT_CHARS",
     "MIN_POINTS",
@@ -41,6 +43,7 @@ __all__ = [
     "FloatArray",
     "FrequencyUnit",
     "MeasuredSweep",
+    "check_text",
     "check_text_size",
     "decode_sweep_bytes",
     "frequency_factor",
@@ -72,6 +75,7 @@ FREQUENCY_FACTORS: dict[FrequencyUnit, float] = {"Hz": 1.0, "kHz": 1e3, "MHz": 1
 # no source).
 MAX_TEXT_CHARS = 32 * 1024 * 1024
 MAX_POINTS = 200_000
+MAX_LINES = 1_000_000  # lines of any kind (data, comments, blank)
 MIN_POINTS = 3  # a parabola through three points needs three
 
 _NUMBER = re.compile(r"[+-]?(?:\d+\.?\d*|\.\d+)(?:[eE][+-]?\d+)?\Z")
@@ -115,6 +119,16 @@ def check_text_size(n_chars: int, source: str) -> None:
         raise DesignError(f"a sweep file is at most {MAX_TEXT_CHARS // (1024 * 1024)} MiB "
                           f"({MAX_POINTS} frequencies): export fewer points or a narrower span",
                           field="size", value=f"{n_chars} bytes", source=source)
+
+
+def check_text(text: str, source: str) -> None:
+    """Refuse a text longer than `MAX_TEXT_CHARS` characters or `MAX_LINES`
+    lines, counted before any line is split (every reader calls this first)."""
+    check_text_size(len(text), source)
+    n_lines = text.count("\n") + text.count("\r") - text.count("\r\n") + 1
+    if n_lines > MAX_LINES:
+        raise DesignError(f"a sweep file has at most {MAX_LINES} lines: export fewer points "
+                          "or fewer comments", field="lines", value=n_lines, source=source)
 
 
 def decode_sweep_bytes(data: bytes, source: str) -> str:

@@ -76,7 +76,7 @@ from .sweep import (
     FloatArray,
     FrequencyUnit,
     MeasuredSweep,
-    check_text_size,
+    check_text,
     gamma_from_z,
     parse_number,
     short,
@@ -457,7 +457,7 @@ def read_touchstone(text: str, source: str = "") -> TouchstoneOnePort:
     port count other than one, is refused at once). Raises `DesignError`
     (field "line N") for anything that is not a well-formed one-port file.
     """
-    check_text_size(len(text), source)
+    check_text(text, source)
     m = re.search(r"\.s(\d+)p\Z", source, flags=re.IGNORECASE)
     if m and int(m.group(1)) != 1:
         raise DesignError(f"the file name says {int(m.group(1))} ports: fabplan reads one-port "

@@ -124,3 +124,12 @@ def test_bad_unit_and_delimiter():
         read_csv_sweep("1,2\n", {"frequency": 1, "swr": 2}, frequency_unit="THz")
     with pytest.raises(DesignError, match="delimiter = '|'"):
         read_csv_sweep("1|2\n", {"frequency": 1, "swr": 2}, frequency_unit="Hz", delimiter="|")
+
+
+def test_bounds(monkeypatch):
+    with pytest.raises(DesignError, match="at most 1000000 lines"):
+        read_csv_sweep("\r\n" * 1_000_000, {"frequency": 1, "swr": 2}, frequency_unit="Hz")
+    monkeypatch.setattr("fabplan.measure.csvsweep.MAX_POINTS", 5)  # the same rule, smaller
+    rows = "".join(f"{k + 1},1.5\n" for k in range(6))
+    with pytest.raises(DesignError, match="rows = 6: a sweep holds at most 5"):
+        read_csv_sweep(rows, {"frequency": 1, "swr": 2}, frequency_unit="Hz")

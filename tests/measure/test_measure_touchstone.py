@@ -25,7 +25,7 @@ from fabplan.measure import (
     read_touchstone,
     write_touchstone,
 )
-from fabplan.measure.sweep import MAX_TEXT_CHARS
+from fabplan.measure.sweep import MAX_LINES, MAX_TEXT_CHARS
 
 DATA = Path(__file__).resolve().parent / "data"
 
@@ -208,11 +208,15 @@ def test_information_block_is_skipped():
     assert complex(read_touchstone(text).s11[0]) == 0.1 + 0.2j
 
 
-def test_bounds_are_refused_before_work():
+def test_bounds_are_refused_before_work(monkeypatch):
     with pytest.raises(DesignError, match="at most 32 MiB"):
         read_touchstone(" " * (MAX_TEXT_CHARS + 1), "huge.s1p")
-    lines = ["# Hz S RI R 50"] + [f"{k + 1} 0 0" for k in range(MAX_POINTS + 1)]
-    with pytest.raises(DesignError, match=rf"line {MAX_POINTS + 2} .*at most {MAX_POINTS}"):
+    with pytest.raises(DesignError, match="at most 1000000 lines"):
+        read_touchstone("\n" * MAX_LINES, "blank.s1p")
+    assert MAX_POINTS == 200_000
+    monkeypatch.setattr("fabplan.measure.touchstone.MAX_POINTS", 5)  # the same rule, smaller
+    lines = ["# Hz S RI R 50"] + [f"{k + 1} 0 0" for k in range(6)]
+    with pytest.raises(DesignError, match=r"many\.s1p: line 7 = '6': a sweep holds at most 5"):
         read_touchstone("\n".join(lines), "many.s1p")
 
 
