@@ -16,21 +16,22 @@ out); numpy only at import.
 - `history`: the first-article history file (JSON Lines) and its average.
 
 Own Touchstone reader, not scikit-rf (measured on this project's 2-core
-machine, Python 3.11, scikit-rf 2.2.0 with numpy 2.4 and scipy 1.17, median
-of 5 cold runs of `python -c ...` in a subprocess after one warm-up):
-`import skrf` took 147 ms, against 85 ms for `import numpy` and 24 ms for an
-empty interpreter, so about 60 ms more than numpy alone (`python -X
-importtime` puts about 123 ms of it under skrf.calibration, with no plotting
-library loaded); a second series gave 175 ms against 103 ms, and reading a
-small .s1p with skrf.Network 206 ms. That cost would be acceptable in the
-measuring command alone. It is not taken because: scikit-rf requires pandas
-(84 MB installed) besides numpy and scipy, a large dependency for one file
-format; fabplan needs one-port files only, and errors as one line naming the
-file, line, value and rule, which a general reader does not give; and the
-reader here (touchstone.py, about 560 lines with its documentation) is written
-from the published specification and tested against files scikit-rf wrote
-(tests/measure/data/make_reference.py made them; scikit-rf is not a dependency
-of the project, not even for tests).
+machine, Python 3.11, scikit-rf 2.2.0 with numpy 2.4 and scipy 1.17, median of
+5 cold runs of `python -c ...` in a subprocess after one warm-up): `import
+skrf` took 147 ms, against 85 ms for `import numpy` and 24 ms for an empty
+interpreter, so about 60 ms more than numpy alone (`python -X importtime` puts
+about 123 ms of it under skrf.calibration, with no plotting library loaded); a
+second series gave 175 ms against 103 ms, and reading a small .s1p with
+skrf.Network 206 ms. That cost would be acceptable in the measuring command
+alone. It is not taken because: scikit-rf requires pandas (84 MB installed)
+besides numpy and scipy, a large dependency for one file format; fabplan needs
+one-port files only, and errors as one line naming the file, line, value and
+rule (scikit-rf raises exceptions without the line, e.g. "x does not have a
+s-parameter extension" for a file-like object without a .s1p name), so it
+would need a wrapper anyway; and the reader here (touchstone.py, about 560
+lines with its documentation) is written from the published specification and
+tested against files scikit-rf wrote (tests/measure/data/make_reference.py
+made them; scikit-rf is not a dependency of the project, not even for tests).
 """
 
 from __future__ import annotations
