@@ -29,7 +29,8 @@ What the reader accepts
 - Version 1.x data: one line per frequency, "frequency pair" (a one-port's
   data set is on one data line, section "Data Lines") [read]; data sets in
   increasing order of frequency [read]. Y and Z of a version 1.x file are
-  normalized to R [memory; scikit-rf 2.2 reads them so].
+  normalized to R [memory; scikit-rf 2.2 writes them so, see the skrf_v1_z and
+  skrf_v1_y reference files].
 - Version 2.0 (and 2.1) keywords [memory of the 2.0 keyword list and order]:
   [Version] first; the option line; [Number of Ports] (must be 1);
   [Number of Frequencies] (required, checked against the data); [Reference]
@@ -45,7 +46,7 @@ What the reader accepts
   continues it (the IBIS parser's rule, as its test file
   v1/network_data/whitespace_4.ts shows, citing the 2.0 specification, page
   13, item 2) [read]. Y and Z in version 2 files are in siemens and ohms, not
-  normalized [memory; scikit-rf 2.2 reads them so].
+  normalized [memory; scikit-rf 2.2 writes them so].
 
 Anything else (two or more ports, a bad token, a decreasing frequency, a
 truncated file) is one `DesignError` line naming the file, the line number,
