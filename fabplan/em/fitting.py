@@ -261,7 +261,7 @@ class SwrMinimum:
     at_edge: bool
 
 
-@dataclass
+@dataclass(frozen=True)
 class FittedSweep:
     """A rational fit of one or more values across [f_lo_hz, f_hi_hz].
 
