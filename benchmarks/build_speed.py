@@ -43,7 +43,7 @@ def main(runs: int = 5) -> None:
     print(f"fabplan build, median of {runs}: {med:.2f} s wall "
           f"(target under {TARGET_S:g} s: {'met' if med < TARGET_S else 'NOT met'})")
 
-    from fabplan.design import load_design
+    from fabplan.design.read import load_design
     from fabplan.plan import make_plan
     from fabplan.render.fullscale import template_pdf
     from fabplan.render.sheet import sheet_pdf

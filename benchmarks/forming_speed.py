@@ -15,10 +15,11 @@ from __future__ import annotations
 import statistics
 import time
 
-from fabplan.design import parse_design
-from fabplan.forming import planning
+from fabplan.design.forming import FormingSettings
+from fabplan.design.read import parse_design
 from fabplan.forming.springback import section_model
-from fabplan.plan import Plan, StockSummary, plan_element
+from fabplan.forming.stage import form_piece, stock_model
+from fabplan.plan import core_element
 
 ROWS = "\n".join(
     f'  {{ straight = "{40 + 3 * i} mm", angle = {30 + (i * 7) % 60}, '
@@ -53,31 +54,24 @@ grip = "40 mm"
 """
 
 
-def core_plan(text: str) -> Plan:
-    design = parse_design(text, "<benchmark>")
-    elements, findings = [], []
-    for spec in design.elements:
-        e, f = plan_element(design, spec)
-        elements.append(e)
-        findings += f
-    s = design.stock
-    summary = StockSummary(s.description, s.material.key, s.material.name, s.material.source,
-                           s.profile, s.profile.mass_per_m_kg(s.material.density_kg_m3),
-                           s.source, s.k_factor)
-    return Plan(design, summary, tuple(elements), tuple(findings))
+def forming_stage(design, piece):
+    """The forming stage on one piece: the stock's model, then the piece's figures."""
+    settings = design.forming or FormingSettings()
+    return form_piece(piece, "zigzag", stock_model(design.stock, settings), settings)
 
 
 def main() -> None:
     for label, extra in (("former", ""), ("bender", BENDER)):
-        plan = core_plan(DESIGN.replace("{forming}", extra))
-        planning.apply(plan)  # imports, first fill
+        design = parse_design(DESIGN.replace("{forming}", extra), "<benchmark>")
+        piece = core_element(design, design.elements[0])[1][0]
+        forming_stage(design, piece)  # imports, first fill
         times = []
         for _ in range(15):
             section_model.cache_clear()
             t0 = time.perf_counter()
-            out = planning.apply(plan)
+            out, _ = forming_stage(design, piece)
             times.append(time.perf_counter() - t0)
-        bends = len(out.elements[0].forming.bends)
+        bends = len(out.bends)
         print(f"forming stage, {label} method, {bends} bends: median "
               f"{1000 * statistics.median(times):.1f} ms, best {1000 * min(times):.1f} ms "
               f"(target: well under 50 ms)")

@@ -26,13 +26,16 @@ TARGET_S = 1.0
 
 JIG_ONLY = f"""
 import time
-from fabplan.design import load_design
+from fabplan.design.read import load_design
 from fabplan.plan import make_plan
 plan = make_plan(load_design({str(EXAMPLE)!r}))
 t0 = time.perf_counter()
-from fabplan.jig.settings import JigSettings
-from fabplan.render.jigfiles import jig_layout_files
-layout, files = jig_layout_files(plan, plan.design.jig or JigSettings())
+from fabplan.design.jig import JigSettings
+from fabplan.plan import jig_for
+from fabplan.render.jig import jig_files
+import dataclasses
+plan = dataclasses.replace(plan, jig=jig_for(plan, plan.design.jig or JigSettings()))
+files = jig_files(plan)
 print(time.perf_counter() - t0, sum(len(b) for b in files.values()))
 """
 

@@ -35,12 +35,15 @@ def median_time(fn: Callable[[], object], runs: int = 5) -> float:
 
 def example_model():
     from fabplan import load_design, make_plan
-    from fabplan.em.planning import element_model
+    from fabplan.em.stage import element_model
+    from fabplan.plan import electrical_input
 
     plan = make_plan(load_design(ROOT / "examples" / "club-uhf-folded-dipoles.toml"))
     settings = plan.design.electrical
     freqs = settings.frequencies()
-    return element_model(plan, plan.elements[0], settings, float(freqs[-1])), freqs
+    e = plan.elements[0]
+    return element_model(electrical_input(plan.design, e.spec, e.pieces), settings,
+                         float(freqs[-1])), freqs
 
 
 def folded_dipole_model(unknowns_target: int):

@@ -19,8 +19,8 @@ EXAMPLE = ROOT / "examples" / "club-uhf-folded-dipoles.toml"
 
 
 def main() -> None:
-    from fabplan.design import load_design
-    from fabplan.em import tuning
+    from fabplan import tuning
+    from fabplan.design.read import load_design
     from fabplan.plan import make_plan
 
     print(f"load average (1 min): {os.getloadavg()[0]:.2f} on {os.cpu_count()} CPUs; wall times "

@@ -259,7 +259,7 @@ def _solve_shunt(z_antenna: complex, system_ohm: float) -> tuple[float, float]:
 
 @dataclass(frozen=True)
 class GammaMatch:
-    """A gamma match: rod length (centre to strap, mm), series capacitor (F) and the model's terms."""
+    """A gamma match: rod length (centre to strap, mm), series capacitor (F), the model's terms."""
 
     rod_length_mm: float
     capacitance_f: float

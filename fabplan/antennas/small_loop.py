@@ -246,7 +246,8 @@ def corner_mutual_inductance_h(length1_mm: float, length2_mm: float, angle_rad: 
     m = length2_mm / 1000.0
     r = math.sqrt(ell * ell + m * m - 2 * ell * m * math.cos(angle_rad))
     k = MU0_H_PER_M / (2 * math.pi)
-    return k * math.cos(angle_rad) * (ell * math.atanh(m / (ell + r)) + m * math.atanh(ell / (m + r)))
+    return k * math.cos(angle_rad) * (ell * math.atanh(m / (ell + r))
+                                      + m * math.atanh(ell / (m + r)))
 
 
 def _polygon_mutual_sum_h(sides: int, side_m: float) -> float:

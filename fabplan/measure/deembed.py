@@ -22,14 +22,14 @@ the inverse is this equation solved for Z_L and needs no reciprocity).
   dielectric loss, which grows with f, is neglected (an assumption, stated
   wherever the line is described). The line's ABCD is cosh(gamma l),
   Z0 sinh(gamma l), sinh(gamma l) / Z0, cosh(gamma l) with gamma = alpha + j
-  beta (fabplan.em.matching.Line computes it, so model and measurement use one
+  beta (fabplan.feed.Line computes it, so model and measurement use one
   formula); its Z_in equals Pozar's terminated lossy line,
   Z_in = Z0 (Z_L + Z0 tanh(gamma l)) / (Z0 + Z_L tanh(gamma l)) (Pozar,
   sec. 2.7).
 - `transformer`: an ideal n:1 impedance transformer (element side : analyser
   side), A = 1/sqrt(n), D = sqrt(n), B = C = 0.
 - `two_port`: any two-port given as a function of frequency returning ABCD.
-- `from_transform`: any linear two-port given the way fabplan.em.matching
+- `from_transform`: any linear two-port given the way fabplan.feed
   models a matching device, as a function (element impedance, frequency) ->
   impedance at the analyser side. The impedance a linear two-port presents is
   a bilinear (Moebius) function of its load, fixed by three values; the
@@ -57,8 +57,8 @@ from typing import Literal
 import numpy as np
 import numpy.typing as npt
 
-from ..em.matching import CoaxBalun, Direct, Line, Transformer
 from ..errors import DesignError, Finding
+from ..feed import CoaxBalun, Direct, Line, Transformer
 from .sweep import (
     ComplexArray,
     FloatArray,
@@ -148,7 +148,7 @@ def _arr(x: object, n: int) -> ComplexArray:
 
 
 def line_stage(line: Line) -> Stage:
-    """A stage for a fabplan.em.matching.Line (the em package's feed line)."""
+    """A stage for a fabplan.feed.Line (the em package's feed line)."""
     if not (math.isfinite(line.z0_ohm) and line.z0_ohm > 0):
         raise DesignError("a line's characteristic impedance is a positive number of ohms",
                           field="z0_ohm", value=line.z0_ohm)
@@ -214,7 +214,7 @@ _CHECK_LOAD = 1.7 + 0.4j
 def from_transform(transform: ImpedanceTransform, description: str, *, ratio: float = 1.0,
                    kind: StageKind = "matching", scale_ohm: float = 50.0) -> Stage:
     """A stage from a forward impedance function (element-side Z (ohm), f (Hz))
-    -> analyser-side Z (ohm), as fabplan.em.matching's devices give it.
+    -> analyser-side Z (ohm), as fabplan.feed's devices give it.
 
     The bilinear map is fitted per frequency from loads near `scale_ohm` and
     checked at a fourth; a function that is not a linear two-port's raises
@@ -255,7 +255,7 @@ def from_transform(transform: ImpedanceTransform, description: str, *, ratio: fl
 
 
 def from_matching(device: Direct | Transformer | CoaxBalun) -> Stage | None:
-    """A stage for a matching device of fabplan.em.matching (None for Direct)."""
+    """A stage for a matching device of fabplan.feed (None for Direct)."""
     if isinstance(device, Direct):
         return None
     if isinstance(device, Transformer):

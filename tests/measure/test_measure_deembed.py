@@ -12,8 +12,8 @@ import math
 import numpy as np
 import pytest
 
-from fabplan.em.matching import C0_M_S, CoaxBalun, Direct, MatchChain, Transformer
 from fabplan.errors import DesignError
+from fabplan.feed import C0_M_S, CoaxBalun, Direct, MatchChain, Transformer
 from fabplan.measure import (
     ABCD,
     deembed,

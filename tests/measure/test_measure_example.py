@@ -8,7 +8,7 @@ from __future__ import annotations
 import numpy as np
 import pytest
 
-from fabplan.em.matching import CoaxBalun
+from fabplan.feed import CoaxBalun
 from fabplan.measure import (
     analyse,
     analyse_sweep,
@@ -37,7 +37,7 @@ def test_issue_15_band_partly_inside_the_sweep(example_plan):
     assert band.upper is not None and 470e6 < band.upper.frequency_hz < 480e6
     assert "not reached" not in band.describe()
     # the 1.5 band lies inside the sweep: its edges agree with the stage's
-    lo, hi = el.extra["bandwidth_edges_hz"]["1.5"]
+    lo, hi = el.bandwidth_edges_hz["1.5"]
     b15 = a.band(1.5)
     assert b15.lower.frequency_hz == pytest.approx(lo, abs=b15.lower.unc_hz + 1.0)
     assert b15.upper.frequency_hz == pytest.approx(hi, abs=b15.upper.unc_hz + 1.0)

@@ -13,8 +13,8 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 
-from fabplan.em.matching import swr as em_swr
 from fabplan.errors import DesignError
+from fabplan.feed import swr as em_swr
 from fabplan.measure import (
     decode_sweep_bytes,
     gamma_from_z,
