@@ -17,8 +17,10 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from typing import Any
 
 import numpy as np
+from numpy.typing import ArrayLike
 
 __all__ = ["C0_M_S", "NEPER_DB", "reflection", "swr", "Line", "Direct", "Transformer",
            "CoaxBalun", "Matching", "MatchChain", "db_per_m"]
@@ -40,13 +42,13 @@ def db_per_m(loss_db: float, per: str) -> float:
     raise ValueError(f"unknown length basis {per!r}")
 
 
-def reflection(z_ohm, z0_ohm: float):
+def reflection(z_ohm: ArrayLike, z0_ohm: float) -> Any:
     """Voltage reflection coefficient of `z_ohm` against a real `z0_ohm`."""
     z = np.asarray(z_ohm, dtype=complex)
     return (z - z0_ohm) / (z + z0_ohm)
 
 
-def swr(z_ohm, z0_ohm: float):
+def swr(z_ohm: ArrayLike, z0_ohm: float) -> Any:
     """Standing-wave ratio of `z_ohm` on a line of real impedance `z0_ohm`.
 
     Returns a float for a scalar input, an array otherwise; infinity where the
@@ -74,31 +76,31 @@ class Line:
     loss_db_per_m: float = 0.0
     loss_ref_hz: float = 100e6
 
-    def alpha_np_per_m(self, f_hz):
+    def alpha_np_per_m(self, f_hz: ArrayLike) -> Any:
         """Attenuation constant (Np/m) at `f_hz`."""
         f = np.asarray(f_hz, dtype=float)
         return self.loss_db_per_m / NEPER_DB * np.sqrt(f / self.loss_ref_hz)
 
-    def beta_rad_per_m(self, f_hz):
+    def beta_rad_per_m(self, f_hz: ArrayLike) -> Any:
         """Phase constant (rad/m) at `f_hz`."""
         return 2 * math.pi * np.asarray(f_hz, dtype=float) / (C0_M_S * self.velocity_factor)
 
-    def matched_loss_db(self, f_hz):
+    def matched_loss_db(self, f_hz: ArrayLike) -> Any:
         """Loss (dB) of the whole line into a matched load at `f_hz`."""
         return self.alpha_np_per_m(f_hz) * NEPER_DB * self.length_mm / 1000.0
 
-    def gamma_l(self, f_hz):
+    def gamma_l(self, f_hz: ArrayLike) -> Any:
         """Complex propagation constant times length (dimensionless)."""
         ell = self.length_mm / 1000.0
         return (self.alpha_np_per_m(f_hz) + 1j * self.beta_rad_per_m(f_hz)) * ell
 
-    def abcd(self, f_hz):
+    def abcd(self, f_hz: ArrayLike) -> tuple[Any, Any, Any, Any]:
         """Chain (ABCD) parameters (A, B, C, D) at `f_hz`; B in ohm, C in S."""
         gl = self.gamma_l(f_hz)
         ch, sh = np.cosh(gl), np.sinh(gl)
         return ch, self.z0_ohm * sh, sh / self.z0_ohm, ch
 
-    def input_impedance(self, z_load_ohm, f_hz):
+    def input_impedance(self, z_load_ohm: ArrayLike, f_hz: ArrayLike) -> Any:
         """Impedance (ohm) looking into the line terminated by `z_load_ohm`."""
         a, b, c, d = self.abcd(f_hz)
         zl = np.asarray(z_load_ohm, dtype=complex)
@@ -111,7 +113,7 @@ class Direct:
 
     ratio: float = 1.0
 
-    def transform(self, z_ohm, f_hz):
+    def transform(self, z_ohm: ArrayLike, f_hz: ArrayLike) -> Any:
         return np.asarray(z_ohm, dtype=complex)
 
     def describe(self) -> str:
@@ -124,7 +126,7 @@ class Transformer:
 
     ratio: float
 
-    def transform(self, z_ohm, f_hz):
+    def transform(self, z_ohm: ArrayLike, f_hz: ArrayLike) -> Any:
         return np.asarray(z_ohm, dtype=complex) / self.ratio
 
     def describe(self) -> str:
@@ -161,7 +163,7 @@ class CoaxBalun:
         return Line(self.z0_ohm, self.velocity_factor, self.loop_length_mm, self.loss_db_per_m,
                     self.loss_ref_hz)
 
-    def transform(self, z_ohm, f_hz):
+    def transform(self, z_ohm: ArrayLike, f_hz: ArrayLike) -> Any:
         """Impedance (ohm) at the unbalanced input with the element `z_ohm` across A-B.
 
         Port 1 of the loop is at A (voltage V1), port 2 at B (V2, current I2
@@ -199,17 +201,17 @@ class MatchChain:
     matching: Matching = Direct()
     feed_line: Line | None = None
 
-    def at_radio(self, z_ohm, f_hz):
+    def at_radio(self, z_ohm: ArrayLike, f_hz: ArrayLike) -> Any:
         """Impedance (ohm) seen at the radio end for the element's `z_ohm` at `f_hz`."""
         z = self.matching.transform(z_ohm, f_hz)
         if self.feed_line is not None:
             z = self.feed_line.input_impedance(z, f_hz)
         return z
 
-    def swr_terminals(self, z_ohm):
+    def swr_terminals(self, z_ohm: ArrayLike) -> Any:
         return swr(z_ohm, self.reference_ohm)
 
-    def swr_system(self, z_ohm, f_hz):
+    def swr_system(self, z_ohm: ArrayLike, f_hz: ArrayLike) -> Any:
         return swr(self.at_radio(z_ohm, f_hz), self.system_ohm)
 
     def describe(self) -> str:

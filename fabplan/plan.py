@@ -190,8 +190,8 @@ def make_plan(design: Design) -> Plan:
     plan_electrical = None
     if design.electrical is not None:
         inputs = [electrical_input(design, spec, pieces) for spec, pieces in zip(specs, formed)]
-        checked, plan_electrical, found = electrical(inputs, design.electrical)
-        findings += found
+        checked, plan_electrical, em_found = electrical(inputs, design.electrical)
+        findings += em_found
     elements = tuple(ElementPlan(*parts) for parts in zip(specs, geometries, formed,
                                                           est.elements, checked))
     return Plan(design, stock_summary(design.stock), elements, tuple(findings), est.order, jig,

@@ -166,3 +166,151 @@ def paper_pt():
         "a4": (595.276, 841.89),  # source: ISO 216, A4 = 210 x 297 mm
         "letter": (612.0, 792.0),  # source: ANSI/ASME Y14.1, Letter = 8.5 x 11 in
     }
+
+
+@pytest.fixture
+def plan_of():
+    """Make the Plan of a design given as TOML text."""
+
+    def make(text: str):
+        from fabplan.design.read import parse_design
+        from fabplan.plan import make_plan
+
+        return make_plan(parse_design(text))
+
+    return make
+
+
+# -- two made-up designs for the jig and its drawings ------------------------------------
+LONG_DIPOLE = """
+[project]
+name = "long folded dipole"
+
+[stock]
+diameter = "4 mm"
+material = "cu-c11000-annealed"
+
+[shop]
+units = "mm"
+
+[[element]]
+name = "fd"
+shape = "folded-dipole"
+side = "900 mm"
+spacing = "50 mm"
+feed_gap = "12 mm"
+"""
+
+HELIX = """
+[project]
+name = "helix test"
+
+[stock]
+gauge = "AWG 10"
+material = "cu-c11000-annealed"
+
+[shop]
+units = "mm"
+
+[[element]]
+name = "coil"
+shape = "helix"
+turns = 5
+diameter = "40 mm"
+pitch = "12 mm"
+lead_in = "20 mm"
+lead_out = "20 mm"
+"""
+
+
+@pytest.fixture(scope="session")
+def long_plan():
+    """A folded dipole too long for a 600 x 400 mm bed (the plate must be split)."""
+    from fabplan.design.read import parse_design
+    from fabplan.plan import make_plan
+
+    return make_plan(parse_design(LONG_DIPOLE))
+
+
+@pytest.fixture(scope="session")
+def helix_plan():
+    from fabplan.design.read import parse_design
+    from fabplan.plan import make_plan
+
+    return make_plan(parse_design(HELIX))
+
+
+# -- reading the jig's DXF back with ezdxf -----------------------------------------------
+def _read_dxf(data: bytes):
+    """An ezdxf document from DXF bytes (ezdxf's reader: an independent check)."""
+    import io
+
+    import ezdxf
+
+    return ezdxf.read(io.StringIO(data.decode("utf-8")))
+
+
+def _datum_transform(msp):
+    import numpy
+
+    """(origin, unit x, unit y) of the element frame, from the two reference
+    POINTs the plate carries (the datum first, then the point 10 units along +x)."""
+    pts = [numpy.array([p.dxf.location.x, p.dxf.location.y]) for p in msp.query("POINT")]
+    origin, xpt = pts[0], pts[1]
+    ux = (xpt - origin) / numpy.linalg.norm(xpt - origin)
+    return origin, ux, numpy.array([-ux[1], ux[0]])
+
+
+def _to_bed(frame, p, scale: float = 1.0):
+    origin, ux, uy = frame
+    return origin + (p[0] * ux + p[1] * uy) * scale
+
+
+@pytest.fixture(scope="session")
+def read_dxf():
+    return _read_dxf
+
+
+@pytest.fixture(scope="session")
+def datum_transform():
+    return _datum_transform
+
+
+@pytest.fixture(scope="session")
+def to_bed():
+    return _to_bed
+
+
+# -- a priced hairpin for the estimate ------------------------------------------------------
+HAIRPIN = """
+[project]
+name = "estimate test"
+
+[stock]
+{stock}
+
+[shop]
+units = "mm"
+kerf = "{kerf}"
+trim = "{trim}"
+
+[[element]]
+name = "pin"
+shape = "hairpin"
+quantity = {quantity}
+leg = "{leg}"
+spacing = "{spacing}"
+"""
+
+
+def hairpin_design(purchase: str = "", *, stock: str = 'gauge = "AWG 12"\nmaterial = '
+                   '"cu-c11000-annealed"', kerf: str = "0 mm", trim: str = "0 mm",
+                   quantity: int = 1, leg: str = "100 mm", spacing: str = "20 mm") -> str:
+    return HAIRPIN.format(stock=stock, kerf=kerf, trim=trim, quantity=quantity,
+                          leg=leg, spacing=spacing) + purchase
+
+
+@pytest.fixture
+def hairpin():
+    """A hairpin design's text, with [purchase] tables and stock of your choosing."""
+    return hairpin_design

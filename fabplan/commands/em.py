@@ -78,10 +78,10 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
         check_writable(csv_path, force, "--csv")
     d = load_design_file(design)
     settings = _settings(d)
-    lo = _frequency(f_from, "--from", settings.sweep_from_hz)
-    hi = _frequency(f_to, "--to", settings.sweep_to_hz)
+    lo = _frequency(f_from, "--from", settings.sweep_from_hz) or settings.sweep_from_hz
+    hi = _frequency(f_to, "--to", settings.sweep_to_hz) or settings.sweep_to_hz
     default_step = settings.sweep_step_hz if f_from is None and f_to is None else (hi - lo) / 80
-    step = _frequency(f_step, "--step", default_step)
+    step = _frequency(f_step, "--step", default_step) or default_step
     check_sweep(lo, hi, step, "--from/--to/--step")
     settings = dataclasses.replace(settings, sweep_from_hz=lo, sweep_to_hz=hi, sweep_step_hz=step)
     plan = _core_plan(d)
@@ -104,7 +104,7 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
             if model_input is None:
                 continue
             ee, findings = check_element(model_input, settings,
-                                         progress=progress.update if show else None)
+                                         progress=progress.update if progress else None)
             found += findings
             title = f"{e.name} ({e.spec.shape})"
             out += [title, "-" * len(title)] + electrical_summary_lines(ee) + [""]

@@ -48,7 +48,7 @@ def jig(design: Path, out_dir: Path, fmt: str, bed: str | None, kerf: str | None
     refuse_errors(plan, with_errors)
     for p in write_set(out_dir, jig_files(plan, formats), force):
         click.echo(f"wrote {p}", err=True)
-    for f in plan.jig.findings:
+    for f in plan.jig.findings if plan.jig is not None else ():
         if f.severity != "error":
             click.echo(f"{f.severity}: [{f.code}] {f.element + ': ' if f.element else ''}"
                        f"{f.message}", err=True)

@@ -38,12 +38,12 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
-from typing import Literal
+from typing import Any, Literal
 
 import numpy as np
 
 from ..errors import DesignError
-from ..feed import CoaxBalun, Direct, Line, MatchChain, Transformer, db_per_m
+from ..feed import CoaxBalun, Direct, Line, MatchChain, Matching, Transformer, db_per_m
 from ..section import Section
 from ..units import parse_power
 
@@ -90,7 +90,8 @@ class ElectricalSettings:
     def ground_text(self) -> str:
         if self.ground == "free-space":
             return "free space (no ground); a real-ground model is not implemented"
-        return (f"perfect ground plane {self.ground_height_mm / 1000:.3f} m below the element's "
+        return (f"perfect ground plane {(self.ground_height_mm or 0.0) / 1000:.3f} m below the "
+                "element's "
                 "plane (image theory); a real (lossy) ground is not modelled")
 
 
@@ -116,7 +117,7 @@ def check_sweep(f_from: float, f_to: float, step: float, field: str = "electrica
         raise DesignError("gives fewer than 3 points: use a smaller step", field=field)
 
 
-def _impedance(sec: Section, key: str, default=None):
+def _impedance(sec: Section, key: str, default: float | None = None) -> Any:
     return sec.number(key, default, low=0.0, low_open=True, high=1e6)
 
 
@@ -141,15 +142,17 @@ def _loss(sec: Section) -> tuple[float, float]:
     return db_per_m(loss, "100ft" if key.endswith("ft") else "100m"), ref or 100e6
 
 
-def _velocity_factor(sec: Section, default=None):
+def _velocity_factor(sec: Section, default: float | None = None) -> Any:
     return sec.number("velocity_factor", default, low=0.0, low_open=True, high=1.0)
 
 
-def _read_matching(sec: Section | None, target: float | None):
+def _read_matching(sec: Section | None,
+                   target: float | None) -> tuple[Matching, float | None]:
     if sec is None:
         return Direct(), None
     kind = sec.string("kind", choices=MATCHING_KINDS)
     system = _impedance(sec, "system_impedance", 50.0)
+    matching: Matching
     if kind == "none":
         matching = Direct()
     elif kind == "transformer":

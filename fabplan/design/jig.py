@@ -120,7 +120,7 @@ def _check(s: JigSettings, where: str) -> None:
 def with_options(settings: JigSettings, *, bed: str | None = None, kerf: str | None = None,
                  units: str | None = None) -> JigSettings:
     """The settings with command-line options applied (strings as typed)."""
-    changes: dict = {}
+    changes: dict[str, object] = {}
     if bed is not None:
         changes["bed_mm"] = parse_bed(bed, "--bed")
     if kerf is not None:
@@ -130,6 +130,6 @@ def with_options(settings: JigSettings, *, bed: str | None = None, kerf: str | N
             raise DesignError(f"must be one of {', '.join(DRAWING_UNITS)}", field="--units",
                               value=units)
         changes["units"] = units
-    out = dataclasses.replace(settings, **changes)
+    out = dataclasses.replace(settings, **changes)  # type: ignore[arg-type]
     _check(out, "option")
     return out

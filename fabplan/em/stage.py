@@ -84,7 +84,7 @@ def conductor(stock: StockSpec, settings: ElectricalSettings) -> Conductor:
         rho = settings.resistivity_ohm_m
     else:
         rho = material.rf_resistivity_ohm_m or material.resistivity_ohm_m
-    wall = profile.wall_mm if profile.kind == "tube" else None  # type: ignore[union-attr]
+    wall = profile.wall_mm if profile.kind == "tube" else None
     return Conductor(profile.equivalent_radius_mm, wall, rho)
 
 
@@ -175,11 +175,11 @@ def _findings(name: str, settings: ElectricalSettings, r: SweepResult,
     by_resonance = getattr(settings, "tune_for", "least-swr") == "resonance"
     f_hz = r.resonance_hz if by_resonance else r.min_swr_hz
     what = "resonance" if by_resonance else "least SWR"
-    if t is not None and f_hz is None:
+    if t is not None and f_hz is None:  # no resonance found
         out.append(Finding("em-off-target", "warning",
                            "no resonance (reactance zero) in the sweep: the element is far from "
                            "the target or the sweep too narrow; widen [electrical] sweep", name))
-    elif t is not None:
+    elif t is not None and f_hz is not None:
         off = f_hz / t - 1
         if abs(off) > UNCERTAINTY_FRAC:
             out.append(Finding("em-off-target", "warning",

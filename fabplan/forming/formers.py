@@ -17,7 +17,8 @@ from collections.abc import Sequence
 
 import numpy as np
 
-from ..geometry.path import Arc3, Bend, BendPath, Straight, neutral_radius
+from ..geometry.path import Arc3, Bend, BendPath, Piece, Straight, neutral_radius
+from ..lengths.records import BendRow
 from .records import Former, JigMark
 
 __all__ = ["formers", "jig_marks", "spacing", "end_shift"]
@@ -31,14 +32,14 @@ def _arcs(path: BendPath) -> list[Arc3]:
     return [p for p in path.primitives() if isinstance(p, Arc3)]
 
 
-def formers(path: BendPath, rows: Sequence, held_radii: Sequence[float],
+def formers(path: BendPath, rows: Sequence[BendRow], held_radii: Sequence[float],
             wraps: Sequence[float], depth_mm: float) -> list[Former]:
     """One disc per flat bend (pitch 0), in order from end A.
 
     `rows` are the Plan's bend rows (positions from the stock's centre),
     `held_radii` the centreline radii held on the discs (mm), `wraps` the held
     angles (deg)."""
-    out = []
+    out: list[Former] = []
     for row, arc, r_held, wrap in zip(rows, _arcs(path), held_radii, wraps):
         if row.pitch_mm:
             continue
@@ -61,7 +62,7 @@ def spacing(discs: Sequence[Former]) -> list[float]:
     return [math.dist(a.centre_mm, b.centre_mm) for a, b in zip(discs, discs[1:])]
 
 
-def jig_marks(path: BendPath, rows: Sequence, depth_mm: float, k_factor: float,
+def jig_marks(path: BendPath, rows: Sequence[BendRow], depth_mm: float, k_factor: float,
               centre_mm: float) -> list[JigMark]:
     """Stock centre, feed-gap ends and bend start/end marks (drawing plane).
 
@@ -87,7 +88,7 @@ def end_shift(path: BendPath, released: Sequence[tuple[float, float] | None],
     """How far the stock's ends move (mm) when each bend comes out at
     `released[i]` = (centreline radius mm, angle deg) instead of the drawing's
     (None: springs straight), with the stock's centre held in place."""
-    pieces = []
+    pieces: list[Piece] = []
     i = 0
     for piece in path.pieces:
         if isinstance(piece, Bend):
@@ -109,7 +110,8 @@ def end_shift(path: BendPath, released: Sequence[tuple[float, float] | None],
     m = np.array([[c, -s], [s, c]])
 
     def moved(q: np.ndarray) -> np.ndarray:
-        return m @ (np.asarray(q)[:2] - p1[:2]) + p0[:2]
+        out: np.ndarray = m @ (np.asarray(q)[:2] - p1[:2]) + p0[:2]
+        return out
 
     ends0 = [np.asarray(path.origin)[:2], path.end_point()[:2]]
     ends1 = [moved(np.asarray(other.origin)), moved(other.end_point())]

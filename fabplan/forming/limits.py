@@ -20,6 +20,7 @@ source, [P] common practice.
 
 from __future__ import annotations
 
+from collections.abc import Iterable
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -93,7 +94,8 @@ def _cth_rule(od_mm: float, annealed: bool) -> RadiusRule:
     col = 0 if annealed else 1
     temper = "annealed" if annealed else "drawn"
     od_in = od_mm / IN
-    rows = sorted((od, v[col]) for od, v in CTH_MIN_RADIUS_IN.items() if v[col] is not None)
+    rows = sorted((od, r) for od, v in CTH_MIN_RADIUS_IN.items()
+                  if (r := v[col]) is not None)
     for od, r in rows:
         if abs(od - od_in) < 0.005:
             mm = r * IN
@@ -174,7 +176,7 @@ def _remedy(material: Material, profile: Profile) -> str:
     return "; ".join(tips)
 
 
-def bend_list(indices) -> str:
+def bend_list(indices: Iterable[int]) -> str:
     """'bend 3' or 'bends 1, 2'."""
     ids = [str(i) for i in indices]
     return ("bend " if len(ids) == 1 else "bends ") + ", ".join(ids)

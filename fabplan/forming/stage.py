@@ -14,6 +14,7 @@ from __future__ import annotations
 import logging
 import math
 from dataclasses import dataclass
+from typing import Literal
 
 import numpy as np
 
@@ -102,6 +103,7 @@ def form_piece(e: PieceCore, name: str, sm: StockModel, settings: FormingSetting
     angles = [b.angle_deg for b in rows]
     tool = settings.bender if settings.method == "bender" else None
     rho_e = model.elastic_limit_radius
+    method: Literal["former", "bender"]
     notes: list[str] = []
     if tool is None:
         states = _held_states(model, radii, angles, depth, k) if rows else []
@@ -179,7 +181,7 @@ def form_piece(e: PieceCore, name: str, sm: StockModel, settings: FormingSetting
             gaps = spacing(discs)
             marks = jig_marks(e.path, rows, depth, k, centre)
             if parallel is not None:
-                released = []
+                released: list[tuple[float, float] | None] = []
                 for b in rows:
                     kr = model.released_one(1.0 / b.centreline_radius_mm)
                     if kr <= 0:

@@ -51,11 +51,13 @@ class Placement:
     def apply(self, points_mm: ArrayLike) -> NDArray[np.float64]:
         """Points (..., 3) of the element's frame in the assembly's frame (mm)."""
         p = np.asarray(points_mm, dtype=float)
-        return p @ self.rotation.T + np.asarray(self.origin_mm, float)
+        out: NDArray[np.float64] = p @ self.rotation.T + np.asarray(self.origin_mm, float)
+        return out
 
     def direction(self, vectors: ArrayLike) -> NDArray[np.float64]:
         """Directions (..., 3) of the element's frame in the assembly's frame."""
-        return np.asarray(vectors, dtype=float) @ self.rotation.T
+        out: NDArray[np.float64] = np.asarray(vectors, dtype=float) @ self.rotation.T
+        return out
 
     @staticmethod
     def translated(x_mm: float = 0.0, y_mm: float = 0.0, z_mm: float = 0.0) -> Placement:

@@ -187,7 +187,7 @@ def offset_contour(contour: Contour, dist: float) -> Contour:
                 raise ValueError("offset of a concave corner next to an arc is not supported")
             p = _intersect(cur, moved[(i + 1) % n])  # type: ignore[arg-type]
             out[-1] = Line(cur.start, p)
-            moved[(i + 1) % n] = Line(p, moved[(i + 1) % n].end)  # type: ignore[union-attr]
+            moved[(i + 1) % n] = Line(p, moved[(i + 1) % n].end)
             if i + 1 == n:
                 out[0] = moved[0]
     return Contour(tuple(out))

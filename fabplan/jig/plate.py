@@ -84,7 +84,7 @@ def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], 
     # hold-down pins: both sides of each straight run, tangent to the conductor
     pin_r = s.pin_diameter_mm / 2
     off = d / 2 + pin_r
-    pins: list = []
+    pins: list[P] = []
     reach = d / 2 + 2.0  # half-length of an engraved mark across the conductor
     ticks = []
     for m in f.jig_marks:
@@ -120,7 +120,7 @@ def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], 
         keep_out.append(Point(c).buffer(pin_r))
     # engraved marks across the conductor, labelled beside it
     th = max(2.0, 0.7 * s.text_height_mm)
-    texts = []
+    texts: list[Any] = []
     blocked = unary_union([*keep_out, box(-6.0, -6.0, 11.0, 6.0)])  # and the datum cross
     for m in f.jig_marks:
         p = (m.point_mm[0], m.point_mm[1])
@@ -162,33 +162,33 @@ def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], 
     items.append(Item("reference", Line((0.0, -5.0), (0.0, 5.0)), "datum"))
     everything = unary_union([body, *texts, Point(0, 0).buffer(10)])
     bx0, by0, bx1, by1 = everything.bounds
-    m = s.margin_mm
-    usable = (s.bed_mm[0] - 2 * s.part_gap_mm, s.bed_mm[1] - 2 * s.part_gap_mm)
+    margin = s.margin_mm
+    room = (s.bed_mm[0] - 2 * s.part_gap_mm, s.bed_mm[1] - 2 * s.part_gap_mm)
     parts: list[Part] = []
     # the convex outline of everything on the plate grown by the margin, when it
     # saves material over the simpler rectangle
     hull = _hull_plate(e, s, everything, items)
-    rect = (bx0 - m, by0 - m, bx1 + m, by1 + m)
+    rect = (bx0 - margin, by0 - margin, bx1 + margin, by1 + margin)
     rect_area = (rect[2] - rect[0]) * (rect[3] - rect[1])
-    if hull is not None and fits(hull, usable) and \
+    if hull is not None and fits(hull, room) and \
             hull.outline.area * RECTANGLE_PREFERENCE < rect_area:
         parts.append(hull)
     else:
         # a rectangle, cut into pieces that fit the bed
-        inset = m / 2
+        inset = margin / 2
         for cx, cy in ((rect[0] + inset, rect[1] + inset), (rect[2] - inset, rect[1] + inset),
                        (rect[2] - inset, rect[3] - inset), (rect[0] + inset, rect[3] - inset)):
             items.append(hole((cx, cy), s.mounting_hole_mm, g, "mounting-hole"))
         mounting = [Point(it.shape.centre).buffer(s.mounting_hole_mm / 2) for it in items
-                    if it.role == "mounting-hole"]
+                    if it.role == "mounting-hole" and isinstance(it.shape, Circle)]
         board = Board(items, keep_out + mounting + [box(*t.bounds) for t in texts], texts,
                        label_at, tuple(texts[first_label:]))
         plate_ = plate(e.name, "plate", f"{e.name}: base plate", items, rect, s,
                        (s.corner_radius_mm,) * 4)
-        if fits(plate_, usable):
+        if fits(plate_, room):
             parts.append(plate_)
         else:
-            split, found = split_plate(e, s, board, rect, usable)
+            split, found = split_plate(e, s, board, rect, room)
             parts.extend(split)
             findings.extend(found)
     parts.extend(former_parts(e, s))
@@ -257,8 +257,8 @@ def _label_lines(project: str, e: JigPiece, s: JigSettings, width: int) -> list[
         lines.append(f"bend {b.index}: bend to {b.overbend_deg:.1f} deg "
                      f"(springback {b.springback_deg:.1f} deg), former radius "
                      f"{format_drawing_length(b.former_radius_mm, units)}")
-    for (a, b), sp in zip(zip(f.formers, f.formers[1:]), f.former_spacing_mm):
-        lines.append(f"former spacing {a.label}-{b.label}: {format_drawing_length(sp, units)} "
+    for (fa, fb), sp in zip(zip(f.formers, f.formers[1:]), f.former_spacing_mm):
+        lines.append(f"former spacing {fa.label}-{fb.label}: {format_drawing_length(sp, units)} "
                      "centre to centre")
     lines.append("check the 100 mm and 4 in squares before use")
     out: list[str] = []

@@ -63,7 +63,7 @@ class Part:
     outline: Any = field(compare=False, repr=False)  # shapely Polygon: extent incl. kerf
 
     def bounds(self) -> tuple[float, float, float, float]:
-        return tuple(self.outline.bounds)  # type: ignore[return-value]
+        return tuple(self.outline.bounds)
 
 
 @dataclass(frozen=True)

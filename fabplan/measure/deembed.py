@@ -167,7 +167,7 @@ def line_stage(line: Line) -> Stage:
 
     def abcd(f_hz: FloatArray) -> ABCD:
         f = np.asarray(f_hz, dtype=np.float64)
-        a, b, c, d = line.abcd(f)  # type: ignore[no-untyped-call]
+        a, b, c, d = line.abcd(f)
         n = len(f)
         return ABCD(_arr(a, n), _arr(b, n), _arr(c, n), _arr(d, n))
 
@@ -262,7 +262,7 @@ def from_matching(device: Direct | Transformer | CoaxBalun) -> Stage | None:
         return transformer(float(device.ratio))
 
     def forward(z: ComplexArray, f: FloatArray) -> ComplexArray:
-        return np.asarray(device.transform(z, f), dtype=np.complex128)  # type: ignore[no-untyped-call]
+        return np.asarray(device.transform(z, f), dtype=np.complex128)
 
     return from_transform(forward, device.describe(), ratio=float(device.ratio))
 
@@ -342,7 +342,7 @@ def deembed(sweep: MeasuredSweep, stages: Sequence[Stage], *, z0_ohm: float | No
             if s.ideal_ratio:
                 ref *= s.ratio
             elif s.line is not None and math.isclose(s.line.z0_ohm, ref, rel_tol=1e-9):
-                gl = np.asarray(s.line.gamma_l(f), dtype=np.complex128)  # type: ignore[no-untyped-call]
+                gl = np.asarray(s.line.gamma_l(f), dtype=np.complex128)
                 mag = mag * np.exp(2 * gl.real)
             else:
                 raise DesignError("removing this needs the phase of S11 (only a feed line of "

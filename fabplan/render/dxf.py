@@ -68,7 +68,7 @@ def _bed_to_dxf(layout: JigLayout, bed: Bed) -> bytes:
         doc.layers.add(name, color=colour)
     msp = doc.modelspace()
 
-    def attrs(op: str) -> dict:
+    def attrs(op: str) -> dict[str, str]:
         return {"layer": LAYERS[op][0]}
 
     for placed in bed.parts:

@@ -77,7 +77,7 @@ def forming_dict(f: ElementForming, d: dict[str, Any]) -> None:
     """Merge the per-bend forming figures into d["bends"] (by index) and add d["forming"]."""
     by_index = {b.index: b for b in f.bends}
     for row in d.get("bends", []):
-        b = by_index.get(row.get("index"))  # type: ignore[arg-type]
+        b = by_index.get(row.get("index"))
         if b is None:
             continue
         row.update({

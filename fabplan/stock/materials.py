@@ -49,7 +49,8 @@ class Material:
         if not changes:
             return self
         note = ", ".join(f"{k} from the design" for k in sorted(changes))
-        return dataclasses.replace(self, **changes, source=f"{self.source}; {note}")
+        fields: dict[str, object] = {**changes, "source": f"{self.source}; {note}"}
+        return dataclasses.replace(self, **fields)  # type: ignore[arg-type]
 
 
 # properties a design may override, by key name (all numbers in the units above)

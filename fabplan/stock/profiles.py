@@ -156,7 +156,7 @@ def awg_diameter_mm(gauge: int) -> float:
     """
     d_in = 0.005 * 92 ** ((36 - gauge) / 39)
     d_in = round(d_in, 4) if d_in >= 0.010 else round(d_in, 5)
-    return d_in * IN
+    return float(d_in * IN)
 
 
 # BS 3737 standard wire gauge, inches [M]

@@ -15,7 +15,7 @@ import numpy as np
 
 from ...errors import DesignError, Finding
 from ...section import Section
-from ..path import Bend, BendPath, Straight
+from ..path import Bend, BendPath, Piece, Straight
 from .base import ShapeSpec, TunedValue
 
 NAME = "custom"
@@ -55,7 +55,7 @@ def read(sec: Section) -> Params:
 
 
 def build(p: Params, d: float) -> BendPath:
-    pieces: list = []
+    pieces: list[Piece] = []
     for row in p.rows:
         if row.straight_mm > 0:
             pieces.append(Straight(row.straight_mm))

@@ -16,7 +16,7 @@ from typing import Literal
 
 from ...errors import DesignError, Finding
 from ...section import Section
-from ..path import Bend, BendPath, Straight
+from ..path import Bend, BendPath, Piece, Straight
 from .base import (
     ParallelEnds,
     ShapeSpec,
@@ -70,7 +70,8 @@ def read(sec: Section) -> Params:
     if style == "round" and radius is not None:
         raise DesignError("a round end's radius follows from the spacing; set end_style = "
                           "\"square\" to use a bend radius", field=sec.field("bend_radius"))
-    return Params(lkind, length, skind, spacing, gap, offset, style, radius)
+    return Params(lkind, length, skind, spacing, gap, offset, style,  # type: ignore[arg-type]
+                  radius)
 
 
 def _straights(p: Params, d: float) -> tuple[float, float, float, float]:
@@ -85,7 +86,7 @@ def build(p: Params, d: float) -> BendPath:
     side, half_a, half_b, link = _straights(p, d)
     r = p.end_radius(d)
     if p.end_style == "round":
-        ends: list = [Bend(r, 180.0)]
+        ends: list[Piece] = [Bend(r, 180.0)]
     else:
         ends = [Bend(r, 90.0)] + ([Straight(link)] if link > 1e-9 else []) + [Bend(r, 90.0)]
     pieces = [Straight(max(half_a, 0.0)), *ends, Straight(side), *ends,

@@ -13,7 +13,7 @@ from typing import Literal
 
 from ...errors import Finding
 from ...section import Section
-from ..path import Bend, BendPath, Straight
+from ..path import Bend, BendPath, Piece, Straight
 from .base import ParallelEnds, ShapeSpec, TunedValue, centre_to_centre, spacing_centre
 
 NAME = "hairpin"
@@ -42,14 +42,14 @@ def read(sec: Section) -> Params:
     kind, spacing = spacing_centre(sec)
     style = sec.string("end_style", "round", choices=("round", "square"))
     radius = sec.length("bend_radius", None)
-    return Params(leg, kind, spacing, style, radius)
+    return Params(leg, kind, spacing, style, radius)  # type: ignore[arg-type]
 
 
 def build(p: Params, d: float) -> BendPath:
     r = p.radius(d)
     c = p.centre_spacing(d)
     if p.end_style == "round":
-        middle: list = [Bend(r, 180.0)]
+        middle: list[Piece] = [Bend(r, 180.0)]
         straight_leg = p.leg_mm
     else:
         link = c - 2 * r

@@ -11,7 +11,7 @@ from dataclasses import dataclass
 
 from ...errors import Finding
 from ...section import Section
-from ..path import Bend, BendPath, Straight
+from ..path import Bend, BendPath, Piece, Straight
 from .base import ShapeSpec, TunedValue, pick_one
 
 NAME = "helix"
@@ -38,7 +38,7 @@ def read(sec: Section) -> Params:
 
 
 def build(p: Params, d: float) -> BendPath:
-    pieces: list = []
+    pieces: list[Piece] = []
     if p.lead_in_mm > 0:
         pieces.append(Straight(p.lead_in_mm))
     pieces.append(Bend(p.diameter_mm / 2, 360.0 * p.turns, 0.0, p.pitch_mm))

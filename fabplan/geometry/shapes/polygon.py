@@ -8,7 +8,7 @@ from __future__ import annotations
 
 import math
 
-from ..path import Bend, BendPath, Straight
+from ..path import Bend, BendPath, Piece, Straight
 
 __all__ = ["rounded_polygon", "setbacks", "polygon_straights"]
 
@@ -38,7 +38,7 @@ def rounded_polygon(sides: list[float], turns_deg: list[float], radius: float, g
                     heading: tuple[float, float, float]) -> BendPath:
     """The loop as a bend path from end A (just past the gap) round to end B."""
     runs = polygon_straights(sides, turns_deg, radius, gap, offset)
-    pieces: list = []
+    pieces: list[Piece] = []
     for i, run in enumerate(runs):
         if run > 1e-9:
             pieces.append(Straight(run))

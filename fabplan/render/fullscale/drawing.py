@@ -95,7 +95,7 @@ def _touches(it: Item, clip: tuple[float, float, float, float]) -> bool:
         (cx, cy), r = (d[0], d[1]) if it.kind == "arc" else ((d[0], d[1]), d[2])
         xs, ys = (cx - r, cx + r), (cy - r, cy + r)
     elif it.kind == "poly":
-        xs, ys = [p[0] for p in d[0]], [p[1] for p in d[0]]
+        xs, ys = tuple(p[0] for p in d[0]), tuple(p[1] for p in d[0])
     elif it.kind == "rect":
         xs, ys = (d[0], d[0] + d[2]), (d[1], d[1] + d[3])
     else:  # text: generous box

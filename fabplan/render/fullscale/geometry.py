@@ -59,7 +59,8 @@ def prim_points(prim: Prim, n: int = 24) -> list[tuple[float, float]]:
     if prim[0] == "L":
         return [prim[1], prim[2]]
     if prim[0] == "A":
-        return _arc_points(*prim[1], prim[2], prim[3], prim[4], n)
+        (cx, cy), r, start, extent = prim[1:5]
+        return _arc_points(cx, cy, r, start, extent, n)
     return list(prim[1])
 
 
@@ -90,8 +91,8 @@ def piece_drawing(e: PieceCore) -> PieceDrawing:
         n = math.hypot(float(t[0]), float(t[1])) or 1.0
         marks.append((mid, m, (float(p[0]), float(p[1])), (float(t[0]) / n, float(t[1]) / n)))
     if not e.planar:
-        pts, _ = e.path.sample(max(e.path.centreline_length() / 600, 0.5))
-        poly = tuple((float(p[0]), float(p[1])) for p in pts)
+        sampled, _ = e.path.sample(max(e.path.centreline_length() / 600, 0.5))
+        poly = tuple((float(p[0]), float(p[1])) for p in sampled)
         return PieceDrawing(False, (("P", poly),), (), tuple(marks), bbox(poly))
     segs = planar_centreline(e.path)
     centre = [_prim(s) for s in segs]

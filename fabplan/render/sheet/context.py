@@ -37,7 +37,10 @@ class Context:
         self.cell = ParagraphStyle("cell", parent=self.body, fontSize=8, leading=9.5,
                                    spaceAfter=0)
         self.cellr = ParagraphStyle("cellr", parent=self.cell, alignment=2)
-        self.pw, self.ph = (v * PT_PER_MM for v in PAPERS[paper])
+        width, height = PAPERS[paper]
+        if height is None:
+            raise ValueError(f"the build sheet needs a cut sheet of paper, not {paper}")
+        self.pw, self.ph = width * PT_PER_MM, height * PT_PER_MM
         self.margin = 15 * PT_PER_MM
         self.frame_w = self.pw - 2 * self.margin
 

@@ -177,7 +177,8 @@ def _which_way(b: BendRow) -> str:
 
 def _steps(ctx: Context, e: PiecePlan) -> list[Any]:
     """Bending steps in order; with the forming stage, its order, tools and overbends."""
-    ids = dict(zip(((m.kind, m.label) for m in e.marks), mark_ids(e)))
+    ids: dict[tuple[str, str], str] = dict(zip(((m.kind, m.label) for m in e.marks),
+                                               mark_ids(e)))
 
     def mark_of(index: int, what: str) -> str:
         return ids.get((f"bend-{what}", f"bend {index} {what}"), "")

@@ -50,7 +50,7 @@ def sheet_pdf(plan: Plan, paper: str = "a4") -> bytes:
 
     project = plan.design.project
 
-    class NumberedCanvas(canvas.Canvas):
+    class NumberedCanvas(canvas.Canvas):  # type: ignore[misc]  # reportlab has no types
         """Defers pages so that each can say "page N of M"."""
 
         def __init__(self, *args: Any, **kwargs: Any) -> None:

@@ -20,6 +20,8 @@ def electrical(ctx: Context) -> list[Any]:
     out = [ctx.p("Electrical check", ctx.h2)]
     for e in items:
         el = e.electrical
+        if el is None:
+            continue
         sw = el.sweep
         bw = ", ".join(f"SWR < {key}: {format_frequency(v)}" if v else
                        f"SWR < {key}: not reached in the sweep"
