@@ -110,7 +110,7 @@ def test_analyse_finds_least_swr_resonance_and_bandwidth_of_a_series_rlc():
     chain = MatchChain(200.0, 50.0, Transformer(4.0))
     f0 = model.f0
     freqs = np.linspace(0.8 * f0, 1.2 * f0, 401)
-    result, edges, at_edge = analyse(model, chain, freqs)
+    result, at_edge = analyse(model, chain, freqs)
     assert result.min_swr_hz == pytest.approx(f0, rel=1e-5)
     assert result.min_swr == pytest.approx(1.0, abs=1e-6)
     assert result.resonance_hz == pytest.approx(f0, rel=1e-7)
@@ -121,8 +121,8 @@ def test_analyse_finds_least_swr_resonance_and_bandwidth_of_a_series_rlc():
     assert result.bandwidth_hz["2"] == pytest.approx(f0 * x2 / X0, rel=2e-3)
     x15 = 4 * 100 * 0.2 / math.sqrt(1 - 0.04)  # |Gamma| = 0.2 at SWR 1.5
     assert result.bandwidth_hz["1.5"] == pytest.approx(f0 * x15 / X0, rel=2e-3)
-    lo, hi = edges["2"]
-    assert lo < f0 < hi
+    band = result.bands[1]
+    assert band.level == 2.0 and band.lower.frequency_hz < f0 < band.upper.frequency_hz
     assert not at_edge
 
 
@@ -130,7 +130,7 @@ def test_analyse_flags_least_swr_at_the_end_of_the_sweep():
     model = RLC(2000.0)
     chain = MatchChain(200.0, 50.0, Transformer(4.0))
     freqs = np.linspace(0.8 * model.f0, 0.95 * model.f0, 31)
-    result, edges, at_edge = analyse(model, chain, freqs)
+    result, at_edge = analyse(model, chain, freqs)
     assert at_edge
     assert result.min_swr_hz == freqs[-1]
     assert result.resonance_hz is None
@@ -144,7 +144,7 @@ def test_a_broad_shallow_minimum_is_pointed_out(x0, broad):
     model = RLC(2000.0, x0_ohm=x0)
     chain = MatchChain(200.0, 50.0, Transformer(4.0))
     freqs = np.linspace(0.9 * model.f0, 1.1 * model.f0, 81)
-    result, edges, at_edge = analyse(model, chain, freqs)
+    result, at_edge = analyse(model, chain, freqs)
     settings = SimpleNamespace(target_hz=None)
     codes = [f.code for f in stage._findings("x", settings, result, at_edge)]
     assert ("em-broad-swr-minimum" in codes) == broad

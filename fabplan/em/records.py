@@ -7,6 +7,8 @@ from __future__ import annotations
 
 from dataclasses import dataclass, field
 
+from ..measure.analysis import Band
+
 __all__ = ["SweepResult", "ElementElectrical", "PlanElectrical", "UNCERTAINTY_FRAC"]
 
 # the stated uncertainty of a predicted frequency: about +-0.5 %, dominated by the
@@ -31,6 +33,9 @@ class SweepResult:
     bandwidth_hz: dict[str, float | None] = field(default_factory=dict)  # {"1.5": .., "2": ..}
     efficiency: float | None = None
     uncertainty_frac: float = UNCERTAINTY_FRAC
+    # the SWR bands through the matching, "1.5" then "2": edges inside the sweep and which
+    # edge lies beyond it (bandwidth_hz holds a width only when both edges are inside)
+    bands: tuple[Band, ...] = ()
 
 
 @dataclass(frozen=True)
@@ -41,8 +46,6 @@ class ElementElectrical:
     sweep: SweepResult
     unknowns: int
     notes: tuple[str, ...] = ()
-    # edges (Hz) of each SWR band around least SWR, None where not found in the sweep
-    bandwidth_edges_hz: dict[str, tuple[float, float] | None] = field(default_factory=dict)
     least_swr_at_sweep_end: bool = False
     geometry: str = ""  # what was modelled, in words
     released_radii: bool = False  # the bends have their after-springback radii

@@ -142,8 +142,8 @@ def check_element(element: ElectricalInput, settings: ElectricalSettings, *,
     freqs = settings.frequencies()
     model = factory(element, settings, float(freqs[-1]), None)
     chain = settings.chain
-    result, edges, at_edge = analyse(model, chain, freqs, progress=progress,
-                                     near_hz=settings.target_hz)
+    result, at_edge = analyse(model, chain, freqs, progress=progress,
+                              near_hz=settings.target_hz)
     _, released = element_path(element)
     c = conductor(element.stock, settings)
     rho = c.resistivity_ohm_m
@@ -158,7 +158,7 @@ def check_element(element: ElectricalInput, settings: ElectricalSettings, *,
     findings += _findings(element.name, settings, result, at_edge)
     notes = ("measured SWR depends on the surroundings (mast, boom, nearby metal, height) and "
              "on the feed line and its routing; the prediction is for the element alone",)
-    return ElementElectrical(settings.target_hz, result, int(model.unknowns), notes, edges,
+    return ElementElectrical(settings.target_hz, result, int(model.unknowns), notes,
                              at_edge, geometry, released, c.radius_mm, c.tube_wall_mm, rho,
                              settings.ground, settings.ground_height_mm), findings
 

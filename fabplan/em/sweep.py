@@ -17,6 +17,7 @@ from typing import Any, Protocol
 import numpy as np
 
 from ..feed import MatchChain
+from ..measure.analysis import Band, swr_bands
 from .records import UNCERTAINTY_FRAC, SweepResult
 
 __all__ = ["Model", "Progress", "least_swr", "resonance", "bandwidths", "analyse", "SWR_LEVELS",
@@ -96,41 +97,19 @@ def resonance(model: Model, freqs: np.ndarray, z: np.ndarray, near_hz: float,
                         float(freqs[i + 1]), xtol=rel_tol * float(freqs[i])))
 
 
-def _crossing(f: np.ndarray, s: np.ndarray, level: float, i: int, step: int) -> float | None:
-    """Walk from index i by `step` until s exceeds `level`; interpolate the crossing."""
-    j = i
-    while 0 <= j + step < len(f):
-        k = j + step
-        if s[k] > level:
-            if not math.isfinite(s[k]):
-                return float(f[k])
-            t = (level - s[j]) / (s[k] - s[j])
-            return float(f[j] + t * (f[k] - f[j]))
-        j = k
-    return None
-
-
-def bandwidths(freqs: np.ndarray, swr_sys: np.ndarray) -> dict[str, tuple[float, float] | None]:
-    """Edges (Hz) of the band around least SWR where SWR stays below each level."""
-    i = int(np.argmin(swr_sys))
-    out: dict[str, tuple[float, float] | None] = {}
-    for key in SWR_LEVELS:
-        level = float(key)
-        if swr_sys[i] >= level:
-            out[key] = None
-            continue
-        lo, hi = _crossing(freqs, swr_sys, level, i, -1), _crossing(freqs, swr_sys, level, i, 1)
-        out[key] = None if lo is None or hi is None else (lo, hi)
-    return out
+def bandwidths(freqs: np.ndarray, swr_sys: np.ndarray) -> tuple[Band, ...]:
+    """The SWR bands around least SWR, one per level of SWR_LEVELS: the edges that
+    lie inside the sweep (Hz), and which edge lies beyond it (fabplan.measure's
+    reading, so that a predicted and a measured sweep are read alike)."""
+    return swr_bands(freqs, swr_sys, tuple(float(k) for k in SWR_LEVELS))
 
 
 def analyse(model: Model, chain: MatchChain, freqs: np.ndarray, *, progress: Progress | None = None,
             near_hz: float | None = None, efficiency: bool = True
-            ) -> tuple[SweepResult, dict[str, tuple[float, float] | None], bool]:
+            ) -> tuple[SweepResult, bool]:
     """Sweep `model` over `freqs` (Hz) and read the sweep through `chain`.
 
-    Returns the SweepResult, the edges (Hz) of each SWR band, and whether least
-    SWR lies at an end of the sweep.
+    Returns the SweepResult and whether least SWR lies at an end of the sweep.
     """
     freqs = np.asarray(freqs, dtype=float)
     z = _sweep(model, freqs, progress)
@@ -138,14 +117,14 @@ def analyse(model: Model, chain: MatchChain, freqs: np.ndarray, *, progress: Pro
     s_sys = np.atleast_1d(chain.swr_system(z, freqs))
     f_min, s_min, at_edge = least_swr(model, chain, freqs, s_sys)
     f_res = resonance(model, freqs, z, near_hz if near_hz is not None else f_min)
-    edges = bandwidths(freqs, s_sys)
+    bands = bandwidths(freqs, s_sys)
     eff = model.solve(f_min).efficiency if efficiency else None
     result = SweepResult(
         tuple(float(f) for f in freqs), tuple(complex(v) for v in z),
         tuple(float(v) for v in s_term), tuple(float(v) for v in s_sys),
         chain.reference_ohm, chain.system_ohm, chain.describe(), s_min, f_min, f_res,
-        {k: (None if e is None else e[1] - e[0]) for k, e in edges.items()},
-        None if eff is None else float(eff), UNCERTAINTY_FRAC)
-    return result, edges, at_edge
+        {k: b.width_hz for k, b in zip(SWR_LEVELS, bands)},
+        None if eff is None else float(eff), UNCERTAINTY_FRAC, bands)
+    return result, at_edge
 
 

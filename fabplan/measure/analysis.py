@@ -86,6 +86,7 @@ from .sweep import (
 )
 
 __all__ = [
+    "swr_bands",
     "DEFAULT_LEVELS",
     "DEFAULT_WINDOW",
     "Band",
@@ -445,6 +446,20 @@ def _band(f: FloatArray, g: FloatArray, level: float, window: int) -> Band:
         edges.append(BandEdge(x, su, nu))
         beyond.append(False)
     return Band(level, True, edges[0], edges[1], beyond[0], beyond[1], start, stop)
+
+
+def swr_bands(freq_hz: npt.ArrayLike, swr: npt.ArrayLike,
+              levels: Sequence[float] = DEFAULT_LEVELS,
+              window: int = DEFAULT_WINDOW) -> tuple[Band, ...]:
+    """The SWR bands of a sweep around its least SWR, one per level: the edges
+    found inside the sweep, and which edge lies beyond it (the predicted sweep of
+    the electrical stage and a measured one are read alike). Frequencies in Hz."""
+    f = np.asarray(freq_hz, dtype=np.float64)
+    s = np.asarray(swr, dtype=np.float64)
+    mag = np.where(np.isfinite(s), (s - 1) / (s + 1), 1.0)
+    g = np.minimum(mag, 1.0) ** 2
+    w = max(3, min(window, len(f) if len(f) % 2 else len(f) - 1))
+    return tuple(_band(f, g, float(level), w) for level in levels)
 
 
 def _crossings(f: FloatArray, z: npt.NDArray[np.complex128], window: int

@@ -159,8 +159,15 @@ def _electrical(el: ElementElectrical, d: dict[str, Any]) -> None:
     out: dict[str, Any] = {"target_hz": num(el.target_hz, 1), "unknowns": el.unknowns}
     out.update(sweep_dict(el.sweep))
     out.update({
-        "bandwidth_edges_hz": {k: (None if e is None else [e[0], e[1]])
-                               for k, e in el.bandwidth_edges_hz.items()},
+        "bandwidth_edges_hz": {
+            f"{b.level:g}": (None if not b.reached else
+                             [None if b.lower is None else b.lower.frequency_hz,
+                              None if b.upper is None else b.upper.frequency_hz])
+            for b in el.sweep.bands},
+        "bandwidth_beyond_sweep": {
+            f"{b.level:g}": [side for side, beyond in (("lower", b.lower_beyond_sweep),
+                                                        ("upper", b.upper_beyond_sweep)) if beyond]
+            for b in el.sweep.bands},
         "least_swr_at_sweep_end": el.least_swr_at_sweep_end,
         "geometry": el.geometry,
         "released_radii": el.released_radii,

@@ -14,6 +14,7 @@ from ..em.records import ElementElectrical, PlanElectrical
 from ..errors import Finding
 from ..estimate.records import Cut, ElementEstimate, Order, StockPiece
 from ..forming.records import ElementForming
+from ..measure.analysis import Band
 from ..plan import PiecePlan, Plan
 from ..units import (
     LengthUnit,
@@ -26,7 +27,7 @@ from ..units import (
 
 __all__ = ["table", "findings_text", "findings_lines", "plan_to_text", "forming_text",
            "estimate_text", "order_text", "electrical_summary_lines", "sweep_lines",
-           "electrical_text", "plan_electrical_text", "swr_text"]
+           "electrical_text", "plan_electrical_text", "swr_text", "band_text"]
 
 
 def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | None = None) -> str:
@@ -321,17 +322,8 @@ def electrical_summary_lines(self: ElementElectrical) -> list[str]:
         off = f"; {100 * (s.min_swr_hz / self.target_hz - 1):+.2f} % from the target"
     rows.append(("least SWR", f"{swr_text(s.min_swr)} at {freq(s.min_swr_hz)}{off}"))
     rows.append(("resonance (X = 0)", freq(s.resonance_hz)))
-    for key in ("1.5", "2"):
-        bw = s.bandwidth_hz.get(key)
-        edges = self.bandwidth_edges_hz.get(key)
-        if bw is None:
-            shown = "not reached, or wider than the sweep"
-        elif edges:
-            shown = (f"{format_frequency(bw)} ({format_frequency(edges[0])} to "
-                     f"{format_frequency(edges[1])})")
-        else:
-            shown = format_frequency(bw)
-        rows.append((f"bandwidth SWR < {key}", shown))
+    for band in s.bands:
+        rows.append((f"bandwidth SWR < {band.level:g}", band_text(band)))
     if s.efficiency is not None:
         rows.append(("efficiency", f"{100 * s.efficiency:.1f} % at least SWR"))
     width = max(len(r[0]) for r in rows)
@@ -354,6 +346,20 @@ def sweep_lines(self: ElementElectrical, max_rows: int | None = 21) -> list[str]
     if stride > 1:
         lines.append(f"  (every {stride}th of {n} points; `fabplan sweep` lists them all)")
     return lines
+
+
+def band_text(band: Band) -> str:
+    """An SWR band as a builder reads it: its width and edges, and which edge lies
+    beyond the sweep when one does."""
+    if not band.reached:
+        return f"not reached (the least SWR is not below {band.level:g})"
+    lo = (format_frequency(band.lower.frequency_hz) if band.lower is not None
+          else f"below {format_frequency(band.sweep_start_hz)} (beyond the sweep)")
+    hi = (format_frequency(band.upper.frequency_hz) if band.upper is not None
+          else f"above {format_frequency(band.sweep_stop_hz)} (beyond the sweep)")
+    if band.width_hz is not None:
+        return f"{format_frequency(band.width_hz)} ({lo} to {hi})"
+    return f"at least {format_frequency(band.width_at_least_hz or 0.0)} ({lo} to {hi})"
 
 
 def electrical_text(el: ElementElectrical) -> str:

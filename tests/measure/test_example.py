@@ -27,7 +27,7 @@ def _driven(example_plan):
 
 def test_issue_15_band_partly_inside_the_sweep(example_plan):
     # fabplan issue 15: on the example SWR stays under 2 from below the sweep's start to about
-    # 475 MHz, and the electrical stage reports that band as "not reached"
+    # 475 MHz; the electrical stage (which reads its sweep with the same bands) says so
     el = _driven(example_plan)
     s = el.sweep
     a = analyse_sweep(np.array(s.freq_hz), swr=np.array(s.swr_system), z_ohm=np.array(s.z_ohm),
@@ -36,8 +36,11 @@ def test_issue_15_band_partly_inside_the_sweep(example_plan):
     assert band.reached and band.lower_beyond_sweep and band.lower is None
     assert band.upper is not None and 470e6 < band.upper.frequency_hz < 480e6
     assert "not reached" not in band.describe()
+    stage_band = s.bands[1]
+    assert stage_band.level == 2.0 and stage_band.lower_beyond_sweep
+    assert stage_band.upper.frequency_hz == pytest.approx(band.upper.frequency_hz, rel=1e-6)
     # the 1.5 band lies inside the sweep: its edges agree with the stage's
-    lo, hi = el.bandwidth_edges_hz["1.5"]
+    lo, hi = s.bands[0].lower.frequency_hz, s.bands[0].upper.frequency_hz
     b15 = a.band(1.5)
     assert b15.lower.frequency_hz == pytest.approx(lo, abs=b15.lower.unc_hz + 1.0)
     assert b15.upper.frequency_hz == pytest.approx(hi, abs=b15.upper.unc_hz + 1.0)

@@ -7,6 +7,7 @@ from typing import Any
 
 from ...em.records import SweepResult
 from ...units import format_frequency
+from ..text import band_text
 from .context import Context
 
 __all__ = ["electrical"]
@@ -23,9 +24,7 @@ def electrical(ctx: Context) -> list[Any]:
         if el is None:
             continue
         sw = el.sweep
-        bw = ", ".join(f"SWR < {key}: {format_frequency(v)}" if v else
-                       f"SWR < {key}: not reached in the sweep"
-                       for key, v in sorted(sw.bandwidth_hz.items()))
+        bw = "; ".join(f"SWR < {b.level:g}: {band_text(b)}" for b in sw.bands)
         rows = [["target frequency", format_frequency(el.target_hz) if el.target_hz else "-"],
                 ["resonance (reactance zero)", format_frequency(sw.resonance_hz)
                  if sw.resonance_hz else "none in the sweep"],
