@@ -15,9 +15,11 @@ prices; `pack` looks for the cheapest set of stock pieces:
    sequential pattern fill that repeatedly cuts the fullest piece of the offer
    with the lowest cost per millimetre used;
 2. exact searches: a branch and bound over the cuts (orders of up to
-   EXACT_ITEMS cuts); for larger orders of few distinct lengths, an integer
-   program over every cutting pattern (scipy's HiGHS interface, imported only
-   then); otherwise a branch and bound over the cuts of the least-used pieces;
+   EXACT_ITEMS cuts), and when it stops unfinished and the order has fewer
+   than SMALL_PATTERNS cutting patterns, an integer program over every cutting
+   pattern (scipy's HiGHS interface, imported only then), which proves the
+   optimum; for larger orders of few distinct lengths, the same integer
+   program; otherwise a branch and bound over the cuts of the least-used pieces;
 3. lower bounds: the cheapest set of stock whose total capacity covers the total
    size (each piece's capacity cut to the fullest it can be filled with these
    lengths), and the count ceil(sum(l + k) / (U + k)) for the longest stock.
@@ -36,12 +38,14 @@ from dataclasses import dataclass
 from typing import Sequence
 
 __all__ = ["StockOption", "Packing", "pack", "pieces_per_stock", "remnant_mm",
-           "lower_bound_pieces", "cover_bound", "EXACT_ITEMS", "NODE_LIMIT"]
+           "lower_bound_pieces", "cover_bound", "EXACT_ITEMS", "NODE_LIMIT", "SMALL_PATTERNS"]
 
 EPS = 1e-6  # mm: lengths closer than this are equal
 EXACT_ITEMS = 40  # orders up to this many cuts get the exact search over all cuts
 NODE_LIMIT = 60_000  # nodes of one exact search before it gives up (deterministic)
+SMALL_PATTERNS = 300  # small orders whose exact search stops: integer program below this
 _FILL_BUDGET = 400  # nodes of one best-fill search
+_FILL_SEARCH_GROUPS = 200  # more distinct lengths than this: best fill is the greedy pass only
 _REPACK_ITEMS = 24  # cuts of the least-used stock pieces repacked exactly in large orders
 
 
@@ -161,6 +165,14 @@ def pack(lengths: Sequence[float], kerf_mm: float, options: Sequence[StockOption
         found, proven = solver.exact(order, solver.cost(bins), node_limit)
         bins = found or bins
         method = "exact search" if proven else "heuristic (exact search stopped)"
+        if not proven:
+            # few enough cutting patterns: the integer program proves the optimum
+            found, proven = solver.pattern_program(max_patterns=SMALL_PATTERNS,
+                                                   max_sizes=len(solver.groups))
+            if found is not None and solver.cost(found) < solver.cost(bins) - tol:
+                bins = found
+            if proven:
+                method = "exact (integer program over cutting patterns)"
     else:
         found, proven = solver.pattern_program()
         if found is not None and solver.cost(found) < solver.cost(bins) - tol:
@@ -223,7 +235,7 @@ class _Solver:
         return sum(self.costs[o] for o, _ in bins)
 
     def load(self, items: Sequence[int]) -> float:
-        return sum(self.sizes[i] for i in items)
+        return sum(map(self.sizes.__getitem__, items))
 
     def cheapest_for(self, load: float) -> int:
         fits = [o for o in self.useful if self.caps[o] >= load - EPS]
@@ -234,42 +246,120 @@ class _Solver:
 
     # -- heuristics ---------------------------------------------------------
     def ffd(self, order: list[int], option: int) -> list[Bin]:
-        """First-fit decreasing into stock of one option, then each piece downsized."""
+        """First-fit decreasing into stock of one option, then each piece downsized.
+
+        Each cut goes into the first open stock piece (in the order they were
+        opened) with room for it, else into a new one. A tree of the largest
+        room left over each range of pieces finds that piece in O(log pieces);
+        a run of equal cuts fills each piece it reaches before the next search.
+        """
         cap = self.caps[option]
+        sizes = self.sizes
+        n = len(order)
+        width = 1
+        while width < n:
+            width *= 2
+        room = [-math.inf] * (2 * width)  # room[width + b]: room left in piece b
         rems: list[float] = []
         contents: list[list[int]] = []
-        for i in order:
-            s = self.sizes[i]
-            for b, rem in enumerate(rems):
-                if rem >= s - EPS:
-                    rems[b] -= s
-                    contents[b].append(i)
-                    break
-            else:
-                rems.append(cap - s)
-                contents.append([i])
+        pos = 0
+        while pos < n:
+            s = sizes[order[pos]]
+            need = s - EPS
+            end = pos + 1
+            while end < n and sizes[order[end]] == s:
+                end += 1
+            while pos < end:
+                if room[1] >= need:  # some open piece has room: the first one
+                    node = 1
+                    while node < width:
+                        node *= 2
+                        if room[node] < need:
+                            node += 1
+                    b = node - width
+                    rem = rems[b]
+                else:
+                    b = len(rems)
+                    rem = cap - s
+                    rems.append(rem)
+                    contents.append([order[pos]])
+                    pos += 1
+                items = contents[b]
+                while pos < end and rem >= need:
+                    rem -= s
+                    items.append(order[pos])
+                    pos += 1
+                rems[b] = rem
+                node = width + b
+                room[node] = rem
+                node //= 2
+                while node:
+                    top = max(room[2 * node], room[2 * node + 1])
+                    if room[node] == top:
+                        break
+                    room[node] = top
+                    node //= 2
         return self.downsize([(option, c) for c in contents])
 
     def pattern_fill(self, order: list[int]) -> list[Bin]:
         """Repeatedly cut the fullest stock piece of the option with the lowest
-        cost per millimetre used, then downsize each piece."""
+        cost per millimetre used, then downsize each piece.
+
+        Each option keeps its fullest pattern (`_best_fill`) while the pieces
+        left allow it. Patterns are kept sparse (length group, count), and with
+        many distinct lengths the greedy fill finds each next length that fits
+        by bisection over the lengths and a skip list over the used-up groups,
+        so a stock piece costs O(cuts log lengths), not O(lengths).
+        """
         groups, gsize = self.groups, self.gsize
+        n_groups = len(groups)
         counts = [len(g) for g in groups]
-        taken = [0] * len(groups)
-        cache: dict[int, list[int]] = {}
+        taken = [0] * n_groups
+        skip = list(range(n_groups + 1))  # skip[j]: towards the next group with pieces left
+        neg_size = [-g for g in gsize]  # ascending, for bisection
+
+        def next_left(j: int) -> int:
+            root = j
+            while skip[root] != root:
+                root = skip[root]
+            while skip[j] != root:
+                skip[j], j = root, skip[j]
+            return root
+
+        def fill(cap: float) -> list[tuple[int, int]]:
+            if n_groups <= _FILL_SEARCH_GROUPS:
+                take = _best_fill(gsize, counts, cap)[0]
+                return [(j, t) for j, t in enumerate(take) if t]
+            # _best_fill's greedy pass: each group in turn, as many as still fit
+            out: list[tuple[int, int]] = []
+            rem = cap
+            j = next_left(bisect.bisect_left(neg_size, -(rem + EPS)))
+            while j < n_groups:
+                t = min(counts[j], math.floor((rem + EPS) / gsize[j]))
+                if t:
+                    out.append((j, t))
+                    rem -= t * gsize[j]
+                j = next_left(bisect.bisect_left(neg_size, -(rem + EPS), j + 1))
+            return out
+
+        cache: dict[int, tuple[list[tuple[int, int]], float]] = {}
         bins: list[Bin] = []
+        last = n_groups - 1  # the smallest length with pieces left
         left = len(order)
         while left:
-            best = None
-            smallest = min(gsize[j] for j in range(len(groups)) if counts[j])
+            while not counts[last]:
+                last -= 1
+            smallest = gsize[last]
+            best: tuple[tuple[float, float, int], int, list[tuple[int, int]]] | None = None
             for o in self.useful:
                 if self.caps[o] < smallest - EPS:
                     continue
-                take = cache.get(o)
-                if take is None or any(t > c for t, c in zip(take, counts)) or not any(take):
-                    take = _best_fill(gsize, counts, self.caps[o])[0]
-                    cache[o] = take
-                filled = sum(t * s for t, s in zip(take, gsize))
+                hit = cache.get(o)
+                if hit is None or not hit[0] or any(t > counts[j] for j, t in hit[0]):
+                    take = fill(self.caps[o])
+                    hit = (take, sum(t * gsize[j] for j, t in take))
+                    cache[o] = hit
+                take, filled = hit
                 if filled <= EPS:
                     continue
                 key = (self.costs[o] / filled, -filled, o)
@@ -278,12 +368,14 @@ class _Solver:
             if best is None:  # cannot happen: every piece fits some option
                 raise ValueError("a piece fits no stock option")
             _, o, take = best
-            items = []
-            for j, t in enumerate(take):
+            items: list[int] = []
+            for j, t in take:
                 items += groups[j][taken[j]:taken[j] + t]
                 taken[j] += t
                 counts[j] -= t
                 left -= t
+                if not counts[j]:
+                    skip[j] = j + 1
             bins.append((o, items))
         return self.downsize(bins)
 
@@ -501,7 +593,7 @@ def _best_fill(gsize: list[float], counts: list[int], cap: float,
     best_fill = cap - rem
     if rem <= EPS:
         return best, True
-    if n > 200:
+    if n > _FILL_SEARCH_GROUPS:
         return best, False
     avail = [0.0] * (n + 1)
     for j in range(n - 1, -1, -1):
