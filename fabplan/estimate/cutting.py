@@ -34,11 +34,11 @@ from __future__ import annotations
 import bisect
 import itertools
 import math
+from collections.abc import Iterator, Sequence
 from dataclasses import dataclass
-from typing import Sequence
 
-__all__ = ["StockOption", "Packing", "pack", "pieces_per_stock", "remnant_mm",
-           "lower_bound_pieces", "cover_bound", "EXACT_ITEMS", "NODE_LIMIT", "SMALL_PATTERNS"]
+__all__ = ["EXACT_ITEMS", "NODE_LIMIT", "SMALL_PATTERNS", "Packing", "StockOption",
+           "cover_bound", "lower_bound_pieces", "pack", "pieces_per_stock", "remnant_mm"]
 
 EPS = 1e-6  # mm: lengths closer than this are equal
 EXACT_ITEMS = 40  # orders up to this many cuts get the exact search over all cuts
@@ -93,7 +93,7 @@ def cover_bound(total: float, caps: Sequence[float], costs: Sequence[float],
     """The least cost of stock whose total capacity (mm) is at least `total` (mm):
     a lower bound on the cost of any packing. Falls back to the weaker
     continuous bound total x (cheapest cost per mm) when the search grows large."""
-    opts = sorted(((cap, c) for cap, c in zip(caps, costs) if cap > EPS),
+    opts = sorted(((cap, c) for cap, c in zip(caps, costs, strict=True) if cap > EPS),
                   key=lambda o: (o[1] / o[0], -o[0]))
     if total <= EPS or not opts:
         return 0.0
@@ -128,6 +128,18 @@ def cover_bound(total: float, caps: Sequence[float], costs: Sequence[float],
 
 class _Budget(Exception):
     pass
+
+
+@dataclass
+class _Search:
+    """The state of one branch and bound: the cost to beat, the best assignment
+    found (option of each stock piece, piece of each cut), nodes visited, and
+    whether the search finished."""
+
+    best: float
+    found: tuple[list[int], list[int]] | None = None
+    nodes: int = 0
+    complete: bool = True
 
 
 def pack(lengths: Sequence[float], kerf_mm: float, options: Sequence[StockOption], *,
@@ -216,15 +228,18 @@ class _Solver:
             else:
                 self.groups.append([i])
         self.gsize = [sizes[g[0]] for g in self.groups]
+        # each useful option's capacity cut to its fullest fill (set by lower_bound_cost)
+        self.fill_caps: list[float] | None = None
 
     def lower_bound_cost(self) -> float:
         """cover_bound with each option's capacity cut to the fullest it can be filled
         with these pieces (when that search finishes): no stock piece holds more."""
         counts = [len(g) for g in self.groups]
-        caps = []
+        caps: list[float] = []
         for o in self.useful:
             take, exact = _best_fill(self.gsize, counts, self.caps[o], budget=5_000)
-            caps.append(sum(t * s for t, s in zip(take, self.gsize)) if exact else self.caps[o])
+            caps.append(sum(t * s for t, s in zip(take, self.gsize, strict=True)) if exact
+                        else self.caps[o])
         self.fill_caps = caps
         costs = [self.costs[o] for o in self.useful]
         total = sum(self.sizes)
@@ -396,9 +411,10 @@ class _Solver:
         bin_rem: list[float] = []
         assign = [-1] * n
         tol = 1e-9 * max(1.0, incumbent)
-        state = {"best": incumbent - tol, "found": None, "nodes": 0, "complete": True}
+        state = _Search(incumbent - tol)
 
-        fill_caps = getattr(self, "fill_caps", [self.caps[o] for o in self.useful])
+        fill_caps = (self.fill_caps if self.fill_caps is not None
+                     else [self.caps[o] for o in self.useful])
         table = _cover_table(fill_caps, [self.costs[o] for o in self.useful], suffix[0])
 
         def bound(i: int, cost: float) -> float:
@@ -416,20 +432,20 @@ class _Solver:
             return cost + need * rate
 
         def dfs(i: int, cost: float) -> None:
-            state["nodes"] += 1
-            if state["nodes"] > node_limit:
-                state["complete"] = False
+            state.nodes += 1
+            if state.nodes > node_limit:
+                state.complete = False
                 raise _Budget
             if i == n:
-                if cost < state["best"]:
-                    state["best"] = cost - tol
-                    state["found"] = (list(bin_opt), list(assign))
+                if cost < state.best:
+                    state.best = cost - tol
+                    state.found = (list(bin_opt), list(assign))
                 return
-            if bound(i, cost) >= state["best"]:
+            if bound(i, cost) >= state.best:
                 return
             s = sizes[i]
             start = assign[i - 1] if i and abs(sizes[i - 1] - s) <= EPS else 0
-            seen = set()
+            seen: set[tuple[int, float]] = set()
             for rem, b in sorted((bin_rem[b], b) for b in range(start, len(bin_rem))):
                 if rem < s - EPS:
                     continue
@@ -456,14 +472,13 @@ class _Solver:
             dfs(0, 0.0)
         except _Budget:
             pass
-        found = state["found"]
-        if found is None:
-            return None, bool(state["complete"])
-        opt_of, where = found
+        if state.found is None:
+            return None, state.complete
+        opt_of, where = state.found
         bins: list[Bin] = [(o, []) for o in opt_of]
         for pos, b in enumerate(where):
             bins[b][1].append(items[pos])
-        return self.downsize(bins), bool(state["complete"])
+        return self.downsize(bins), state.complete
 
     def pattern_program(self, max_patterns: int = 1500,
                         max_sizes: int = 15) -> tuple[list[Bin] | None, bool]:
@@ -481,7 +496,7 @@ class _Solver:
             if len(patterns) >= max_patterns:
                 return None, False
         import numpy as np
-        from scipy.optimize import Bounds, LinearConstraint, milp
+        from scipy.optimize import Bounds, LinearConstraint, milp  # type: ignore[import-untyped]
 
         a = np.array([take for _, take in patterns], dtype=float).T
         c = np.array([self.costs[o] for o, _ in patterns])
@@ -490,10 +505,10 @@ class _Solver:
                    options={"node_limit": 200, "mip_rel_gap": 1e-9})
         if res.x is None:
             return None, False
-        x = [int(round(v)) for v in res.x]
+        x = [round(float(v)) for v in res.x]
         pools = [list(g) for g in self.groups]
         bins: list[Bin] = []
-        for (o, take), times in zip(patterns, x):
+        for (o, take), times in zip(patterns, x, strict=True):
             for _ in range(times):
                 items = []
                 for j, t in enumerate(take):
@@ -542,9 +557,9 @@ def _cover_table(caps: list[float], costs: list[float], total: float,
     ranges = [range(math.ceil(total / c - 1e-9) + 1) for c in caps if c > EPS]
     if not ranges or math.prod(len(r) for r in ranges) > limit:
         return None
-    useful = [(c, k) for c, k in zip(caps, costs) if c > EPS]
-    mixes = sorted((sum(n * c for n, (c, _) in zip(ns, useful)),
-                    sum(n * k for n, (_, k) in zip(ns, useful)))
+    useful = [(c, k) for c, k in zip(caps, costs, strict=True) if c > EPS]
+    mixes = sorted((sum(n * c for n, (c, _) in zip(ns, useful, strict=True)),
+                    sum(n * k for n, (_, k) in zip(ns, useful, strict=True)))
                    for ns in itertools.product(*ranges))
     sums = [m[0] for m in mixes]
     least = [m[1] for m in mixes]
@@ -553,14 +568,15 @@ def _cover_table(caps: list[float], costs: list[float], total: float,
     return sums, least
 
 
-def _maximal_patterns(gsize: list[float], counts: list[int], cap: float, limit: int):
+def _maximal_patterns(gsize: list[float], counts: list[int], cap: float,
+                      limit: int) -> Iterator[list[int]]:
     """Cutting patterns (count of each size) for one stock piece to which no
     further piece fits; at most `limit` of them (then one more, to signal the cut-off)."""
     n = len(gsize)
     cur = [0] * n
     found = 0
 
-    def rec(j: int, rem: float):
+    def rec(j: int, rem: float) -> Iterator[list[int]]:
         nonlocal found
         if found > limit:
             return
