@@ -154,11 +154,12 @@ def _milp_optimum(lengths, kerf, usable) -> int:
     cap = usable + kerf
     ranges = [range(int(cap // (x + kerf)) + 1) for x in kinds]
     pats = [p for p in itertools.product(*ranges)
-            if any(p) and sum(n * (x + kerf) for n, x in zip(p, kinds)) <= cap + 1e-9]
+            if any(p) and sum(n * (x + kerf) for n, x in zip(p, kinds, strict=True))
+            <= cap + 1e-9]
     a = np.array(pats, dtype=float).T
     res = milp(np.ones(len(pats)), constraints=LinearConstraint(a, demand, np.inf),
                integrality=np.ones(len(pats)), bounds=Bounds(0, np.inf))
-    return int(round(res.fun))
+    return round(float(res.fun))
 
 
 @pytest.mark.parametrize("seed", [1, 2, 3])
@@ -186,9 +187,11 @@ def _milp_cheapest(lengths, kerf, options) -> float:
     cols, cost = [], []
     for o in options:
         cap = o.usable_mm + kerf
-        ranges = [range(min(d, int(cap // (x + kerf))) + 1) for x, d in zip(kinds, demand)]
+        ranges = [range(min(d, int(cap // (x + kerf))) + 1)
+                  for x, d in zip(kinds, demand, strict=True)]
         for p in itertools.product(*ranges):
-            if any(p) and sum(n * (x + kerf) for n, x in zip(p, kinds)) <= cap + 1e-9:
+            used = sum(n * (x + kerf) for n, x in zip(p, kinds, strict=True))
+            if any(p) and used <= cap + 1e-9:
                 cols.append(p)
                 cost.append(o.cost)
     a = np.array(cols, dtype=float).T
@@ -241,6 +244,54 @@ def test_large_orders_are_within_one_percent_of_the_bound(kinds, count):
                                                                        stick.usable_mm)
 
 
+def _lp_optimum(lengths, kerf, usable) -> float:
+    """The linear relaxation over every cutting pattern (scipy's linprog), in
+    stock pieces: a lower bound on any plan, independent of pack's own."""
+    import numpy as np
+    from scipy.optimize import linprog
+
+    kinds = sorted(set(lengths))
+    demand = [lengths.count(x) for x in kinds]
+    cap = usable + kerf
+    pats = []
+
+    def extend(j, room, pat):  # every pattern, one kind at a time
+        if j == len(kinds):
+            if any(pat):
+                pats.append(list(pat))
+            return
+        size = kinds[j] + kerf
+        for n in range(min(demand[j], int((room + 1e-9) // size)) + 1):
+            extend(j + 1, room - n * size, [*pat, n])
+
+    extend(0, cap, [])
+    a = np.array(pats, dtype=float).T
+    res = linprog(np.ones(len(pats)), A_ub=-a, b_ub=-np.array(demand, float),
+                  bounds=(0, None), method="highs")
+    assert res.status == 0
+    return float(res.fun)
+
+
+@pytest.mark.parametrize("seed", [1, 2, 3, 4])
+def test_many_lengths_get_a_valid_linear_programming_bound(seed):
+    # 18 lengths (too many for the pattern integer program) of 0.25-0.5 of the stick
+    import random
+
+    rng = random.Random(seed)
+    kinds = [round(rng.uniform(900, 1800), 1) for _ in range(18)]
+    lengths = [rng.choice(kinds) for _ in range(rng.randint(300, 900))]
+    stick = StockOption(3650, 20.0)
+    p = pack(lengths, 1.5, [stick])
+    _check_valid(p, lengths, 1.5, [stick])
+    # source: scipy.optimize.linprog over every pattern (reference library); no plan
+    # beats the relaxation, so a valid bound is at most its value rounded up
+    lp = _lp_optimum(lengths, 1.5, 3650)
+    assert p.lower_bound_cost <= 20.0 * math.ceil(lp - 1e-9) + 1e-9
+    assert p.lower_bound_cost >= 20.0 * (lp - 1e-6)  # as strong as the relaxation
+    assert p.lower_bound_cost - 1e-9 <= p.cost <= 1.01 * p.lower_bound_cost
+    assert "linear program" in p.method or p.method.startswith("heuristic")
+
+
 def test_the_same_order_gives_the_same_plan():
     # same input, same output: twice in one process, and in another process with
     # another string-hash seed
@@ -251,15 +302,20 @@ def test_the_same_order_gives_the_same_plan():
     import sys
 
     rng = random.Random(12)
-    lengths = [round(rng.uniform(150, 1500), 1) for _ in range(3000)]
-    lengths += [709.3] * 500 + [1040.0] * 300
+    lengths = [round(rng.uniform(150, 1500), 1) for _ in range(1000)]
+    lengths += [709.3] * 300 + [1040.0] * 200
     options = [StockOption(3650, 24.0), StockOption(6000, 36.0), StockOption(2400, 17.0)]
     first, second = pack(lengths, 1.5, options), pack(lengths, 1.5, options)
     assert first == second
+    few = [round(rng.uniform(150, 1500), 1) for _ in range(16)]
+    order = [rng.choice(few) for _ in range(1200)]  # the linear-program path
+    lp_plan = pack(order, 1.5, options[:1])
     code = ("import sys, json; from fabplan.estimate.cutting import StockOption, pack; "
-            "d = json.load(sys.stdin); "
-            "print(repr(pack(d['l'], 1.5, [StockOption(*o) for o in d['o']])))")
-    data = json.dumps({"l": lengths, "o": [(o.usable_mm, o.cost) for o in options]})
+            "d = json.load(sys.stdin); o = [StockOption(*o) for o in d['o']]; "
+            "print(repr(pack(d['l'], 1.5, o))); print(repr(pack(d['m'], 1.5, o[:1])))")
+    data = json.dumps({"l": lengths, "m": order,
+                       "o": [(o.usable_mm, o.cost) for o in options]})
     out = subprocess.run([sys.executable, "-c", code], input=data, capture_output=True,
                          text=True, check=True, env=dict(os.environ, PYTHONHASHSEED="7"))
-    assert out.stdout.strip() == repr(first)
+    assert out.stdout.splitlines() == [repr(first), repr(lp_plan)]
+    assert "linear program" in lp_plan.method
