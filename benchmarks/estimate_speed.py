@@ -78,7 +78,8 @@ def scale_report() -> bool:
     for name, lengths, kerf, options, target in scale_orders():
         floor = best_of(lambda lengths=lengths: sorted(lengths), 5)
         p = pack(lengths, kerf, options)
-        took = best_of(lambda: pack(lengths, kerf, options), 3)
+        took = best_of(lambda lengths=lengths, kerf=kerf, options=options:
+                       pack(lengths, kerf, options), 3)
         gap = 100 * (p.cost - p.lower_bound_cost) / p.lower_bound_cost
         met = took < target and (p.proven_optimal or gap <= 1.0)
         ok &= met
