@@ -202,7 +202,10 @@ def pack(lengths: Sequence[float], kerf_mm: float, options: Sequence[StockOption
             if proven:
                 method = "exact (integer program over cutting patterns)"
     else:
-        found, proven = solver.pattern_program()
+        # few lengths (up to 1500 patterns), or up to LP_SIZES with under SMALL_PATTERNS
+        found, proven = (solver.pattern_program() if len(solver.groups) <= 15 else
+                         solver.pattern_program(max_patterns=SMALL_PATTERNS,
+                                                max_sizes=LP_SIZES))
         if found is not None and solver.cost(found) < solver.cost(bins) - tol:
             bins = found
         if proven:
