@@ -20,8 +20,9 @@ prices; `pack` looks for the cheapest set of stock pieces:
    EXACT_ITEMS cuts), and when it stops unfinished and the order has fewer
    than SMALL_PATTERNS cutting patterns, an integer program over every cutting
    pattern (scipy's HiGHS interface, imported only then), which proves the
-   optimum; for larger orders of few distinct lengths, the same integer
-   program;
+   optimum; for larger orders, the same integer program when they have at
+   most 15 distinct lengths (and 1500 patterns) or at most LP_SIZES lengths
+   and under SMALL_PATTERNS patterns;
 3. larger orders of at most LP_SIZES distinct lengths that are still not
    proven: the linear relaxation over cutting patterns by column generation
    (Gilmore & Gomory 1961), which gives a lower bound (Farley 1990) and a plan
