@@ -119,7 +119,10 @@ def _value(f: Callable[[float], float], x: float) -> float:
 # -- bounded minimisation -----------------------------------------------------------------
 
 _GOLDEN = 0.5 * (3.0 - math.sqrt(5.0))  # (3 - sqrt 5) / 2, the golden-section fraction
-_SQRT_EPS = math.sqrt(_EPS)
+# the relative part of the step tolerance: the square root of the machine epsilon
+# (Brent), taken as 2.2e-16 as scipy's bounded minimize_scalar does, so that the two
+# take the same steps
+_SQRT_EPS = math.sqrt(2.2e-16)
 
 
 def minimize_bounded(f: Callable[[float], float], lo: float, hi: float, *,
@@ -129,8 +132,8 @@ def minimize_bounded(f: Callable[[float], float], lo: float, hi: float, *,
     Brent's method (Brent 1973, ch. 5): golden-section steps, replaced by the
     minimum of a parabola through the three best points whenever that step is
     acceptable. The tolerance follows scipy's bounded minimize_scalar: each
-    step's tolerance is sqrt(eps) |x| + xatol / 3 and the search stops when the
-    bracket of the minimum is within twice that of x. Raises ValueError for a
+    step's tolerance is sqrt(2.2e-16) |x| + xatol / 3 and the search stops when
+    the bracket of the minimum is within twice that of x. Raises ValueError for a
     bad interval and ConvergenceError after `maxiter` evaluations of f.
     """
     lo, hi = float(lo), float(hi)
@@ -169,7 +172,7 @@ def minimize_bounded(f: Callable[[float], float], lo: float, hi: float, *,
                 e, d = d, p / q
                 u = x + d
                 if u - a < tol2 or b - u < tol2:  # not too close to the ends
-                    d = tol if x < m else -tol
+                    d = tol if x <= m else -tol
                 parabolic = True
         if not parabolic:
             e = (b if x < m else a) - x
