@@ -4,6 +4,14 @@ Prints, for a few typical orders of 500 pieces and one small club order, the
 solve time, the stock pieces bought, the lower bound ceil(sum(l + k) / (U + k))
 and whether the plan is proven the cheapest. Targets (issue 4): 500 pieces in
 under 0.5 s, and within one stock piece of the lower bound on typical orders.
+
+Then the scale targets (issue 16): 10,000 parts of all-distinct lengths in
+under 0.5 s and 100,000 parts of 20 lengths in under 2 s, each within 1 % of
+the cost bound or proven cheapest. Each time is also given as a ratio to a
+floor measured in the same run: Python's sort of the same number of floats
+(any packing must at least order the cuts), so the figure travels between
+machines better than the seconds do.
+
 Invented lengths and prices. Run: .venv/bin/python benchmarks/estimate_speed.py
 """
 
@@ -41,6 +49,48 @@ def orders():
         StockOption(5 * FT - 25.4, 9.5)]
 
 
+def scale_orders():
+    """The issue-16 targets: (name, lengths, kerf, options, target seconds)."""
+    rng = random.Random(16)
+    stick_12ft = StockOption(12 * FT - 10, 24.0)
+    yield ("10,000 parts, all lengths distinct", [round(rng.uniform(150, 1500), 3)
+                                                   for _ in range(10_000)], 1.5,
+           [stick_12ft], 0.5)
+    kinds = [round(rng.uniform(150, 1500), 1) for _ in range(20)]
+    yield ("100,000 parts of 20 lengths", [rng.choice(kinds) for _ in range(100_000)], 1.5,
+           [stick_12ft], 2.0)
+
+
+def best_of(fn, repeat: int) -> float:
+    times = []
+    for _ in range(repeat):
+        t = time.perf_counter()
+        fn()
+        times.append(time.perf_counter() - t)
+    return min(times)
+
+
+def scale_report() -> bool:
+    print()
+    print(f"{'scale order':38} {'time s':>7} {'floor s':>8} {'ratio':>6} {'target':>7} "
+          f"{'pieces':>6} {'cost':>9} {'bound':>9} {'gap %':>6}  proven")
+    ok = True
+    for name, lengths, kerf, options, target in scale_orders():
+        floor = best_of(lambda lengths=lengths: sorted(lengths), 5)
+        p = pack(lengths, kerf, options)
+        took = best_of(lambda lengths=lengths, kerf=kerf, options=options:
+                       pack(lengths, kerf, options), 3)
+        gap = 100 * (p.cost - p.lower_bound_cost) / p.lower_bound_cost
+        met = took < target and (p.proven_optimal or gap <= 1.0)
+        ok &= met
+        print(f"{name:38} {took:7.3f} {floor:8.4f} {took / floor:6.0f} {target:6.1f}s "
+              f"{len(p.bins):6d} {p.cost:9.1f} {p.lower_bound_cost:9.1f} {gap:6.2f}  "
+              f"{'yes' if p.proven_optimal else 'no'}" + ("" if met else "  (target missed)"))
+    print("floor = Python's sort of the same number of floats (best of 5); ratio = time / floor; "
+          "gap = cost over the cost bound (targets: < 1 % or proven cheapest)")
+    return ok
+
+
 def main() -> int:
     t0 = time.perf_counter()
     pack([1040.0, 2105.0, 930.0, 915.0, 900.0] * 100, 1.5, [StockOption(12 * FT - 10, 24.0)])
@@ -68,6 +118,7 @@ def main() -> int:
           "ignores how the lengths fit a stick, so a proven-cheapest plan can sit well above it "
           "(500 x 812 mm: 4 per 12 ft stick, 125 sticks, bound 112). With several offers the "
           "plan minimises cost, not pieces.")
+    scale_report()
     return 0
 
 

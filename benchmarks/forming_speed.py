@@ -5,7 +5,7 @@ Run: .venv/bin/python benchmarks/forming_speed.py
 Prints the time of the forming stage alone (springback, limits, jig formers
 and marks, bend order) on a plan whose core figures are already made, for a
 flat 20-bend custom element with 20 different radii (former method) and the
-same element in a hand bender. The first run includes scipy's import and the
+same element in a hand bender. The first run includes the imports and the
 per-section cache fill; the figure reported is the median of fresh runs with
 the caches cleared.
 """

@@ -19,9 +19,10 @@ length, so theta_i * rho_i = theta_f * rho_f on that axis.
 The section integral uses fixed Gauss-Legendre nodes on each smooth piece of
 the law (a round's width is handled by y = a sin(phi), which removes the
 square-root end), vectorised over curvatures. The inverse (curvature to hold
-for a finished curvature) is root finding on that integral: scipy's brentq for
-one bend, and for many bends at once a cached per-section table for the
-start followed by secant steps on the exact integral (brentq as the fallback).
+for a finished curvature) is root finding on that integral: Brent's method
+(fabplan.numeric.brentq) for one bend, and for many bends at once a cached
+per-section table (a monotone cubic, fabplan.numeric.pchip) for the start
+followed by secant steps on the exact integral (Brent's method as the fallback).
 
 Units: mm, MPa (N/mm^2), N mm, radians inside; degrees at the interface.
 """
@@ -36,6 +37,7 @@ import numpy as np
 
 from ..design.forming import MODELS, Model
 from ..errors import DesignError
+from ..numeric import brentq, pchip
 from ..stock.materials import Material
 from ..stock.profiles import Profile, Round, Strip, Tube
 
@@ -222,9 +224,7 @@ class SectionModel:
 
     def held_curvature(self, kappa_final: float) -> float:
         """Curvature to hold (1/mm) so the bar springs back to `kappa_final`
-        (1/mm), by scipy.optimize.brentq on the section integral."""
-        from scipy.optimize import brentq
-
+        (1/mm), by Brent's method on the section integral."""
         if kappa_final <= 0:
             return 0.0
         lo, hi = self._bracket(kappa_final)
@@ -236,13 +236,11 @@ class SectionModel:
         interpolant (PCHIP) through one vectorised pass of the section integral,
         from the elastic limit to a held radius of half the half-depth."""
         if self._inverse is None:
-            from scipy.interpolate import PchipInterpolator
-
             k_e = self.law.limit_strain / self.c
             held = k_e * np.geomspace(1.0, max(2.0 / (self.c * k_e), 2.0), 64)
             rel = self.released(held)
             keep = np.concatenate([[True], np.diff(rel) > 0])
-            interp = PchipInterpolator(rel[keep], held[keep])
+            interp = pchip(rel[keep], held[keep])
             self._inverse = (interp, interp.derivative(), float(rel[keep][-1]))
         return self._inverse
 
@@ -253,7 +251,7 @@ class SectionModel:
         a Newton step with the table's slope and then secant steps on the exact
         section integral (all bends in one vectorised pass per step) bring it to
         1e-13 in two or three passes. Anything that does not converge, or lies
-        beyond the table, goes to `held_curvature` (brentq)."""
+        beyond the table, goes to `held_curvature` (Brent's method)."""
         kf = np.atleast_1d(np.asarray(kappa_final, dtype=float))
         out = np.zeros_like(kf)
         interp, slope, top = self._table()
@@ -346,8 +344,6 @@ def calibrate_scale(profile: Profile, law: FlowLaw, former_radius_mm: float,
     `angle_released_deg` when let go. Returns the factor f such that the law
     with Y and K times f gives that springback; the effective yield is f Y.
     """
-    from scipy.optimize import brentq
-
     depth = profile.depth_mm
     r_held = former_radius_mm + depth / 2
     if not 0 < angle_released_deg < angle_held_deg:

@@ -23,6 +23,8 @@ from typing import cast
 
 import numpy as np
 
+from ..numeric import pairs_within
+
 __all__ = ["Straight", "Bend", "Piece", "BendPath", "Line3", "Arc3", "Primitive", "BendSpan",
            "neutral_radius"]
 
@@ -335,13 +337,10 @@ class BendPath:
         Returns (s1, s2, centre distance) for each touching pair (mm), merging
         neighbours. The intended feed gap is not a touch.
         """
-        from scipy.spatial import cKDTree
-
         step = diameter_mm / 4
         pts, s = self.sample(step)
         total = self.centreline_length() + (self.gap_mm or 0.0)
-        tree = cKDTree(pts)
-        pairs = tree.query_pairs(diameter_mm * (1 - 1e-6), output_type="ndarray")
+        pairs = pairs_within(pts, diameter_mm * (1 - 1e-6))
         if len(pairs) == 0:
             return []
         ds = np.abs(s[pairs[:, 0]] - s[pairs[:, 1]])
