@@ -18,6 +18,7 @@ import numpy as np
 
 from ..feed import MatchChain
 from ..measure.analysis import Band, swr_bands
+from ..numeric import brentq, minimize_bounded
 from .records import UNCERTAINTY_FRAC, SweepResult
 
 __all__ = ["Model", "Progress", "least_swr", "resonance", "bandwidths", "analyse", "SWR_LEVELS",
@@ -61,27 +62,22 @@ def least_swr(model: Model, chain: MatchChain, freqs: np.ndarray, swr_sys: np.nd
     """Frequency (Hz) and value of least SWR through the matching, refined
     between the sweep's neighbours of its lowest point by bounded Brent search.
     Returns (f, swr, at_edge); at_edge when the lowest point is a sweep end."""
-    from scipy.optimize import minimize_scalar
-
     i = int(np.argmin(swr_sys))
     if i == 0 or i == len(freqs) - 1:
         return float(freqs[i]), float(swr_sys[i]), True
     lo, hi = float(freqs[i - 1]), float(freqs[i + 1])
-    res = minimize_scalar(lambda f: _gamma_sys(model, chain, f), bounds=(lo, hi),
-                          method="bounded", options={"xatol": rel_tol * freqs[i]})
-    g = float(res.fun)
+    x_best, g = minimize_bounded(lambda f: _gamma_sys(model, chain, f), lo, hi,
+                                 xatol=rel_tol * float(freqs[i]))
     s = (1 + g) / (1 - g) if g < 1 else math.inf
     if s > swr_sys[i]:  # the grid point itself is better (a kink): keep it
         return float(freqs[i]), float(swr_sys[i]), False
-    return float(res.x), s, False
+    return float(x_best), s, False
 
 
 def resonance(model: Model, freqs: np.ndarray, z: np.ndarray, near_hz: float,
               rel_tol: float = 1e-7) -> float | None:
     """The reactance zero crossing nearest `near_hz` (Hz), refined by Brent's
     method; crossings from capacitive to inductive (series resonance) first."""
-    from scipy.optimize import brentq
-
     x = z.imag
     idx = np.nonzero(np.sign(x[:-1]) * np.sign(x[1:]) <= 0)[0]
     if len(idx) == 0:

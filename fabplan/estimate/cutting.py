@@ -527,7 +527,7 @@ class _Solver:
             if len(patterns) >= max_patterns:
                 return None, False
         import numpy as np
-        from scipy.optimize import Bounds, LinearConstraint, milp  # type: ignore[import-untyped]
+        from scipy.optimize import Bounds, LinearConstraint, milp
 
         a = np.array([take for _, take in patterns], dtype=float).T
         c = np.array([self.costs[o] for o, _ in patterns])

@@ -30,14 +30,16 @@ Units: mm, MPa (N/mm^2), N mm, radians inside; degrees at the interface.
 from __future__ import annotations
 
 import math
+from collections.abc import Callable
 from dataclasses import dataclass
 from functools import lru_cache
 
 import numpy as np
+import numpy.typing as npt
 
 from ..design.forming import MODELS, Model
 from ..errors import DesignError
-from ..numeric import brentq, pchip
+from ..numeric import Pchip, brentq, pchip
 from ..stock.materials import Material
 from ..stock.profiles import Profile, Round, Strip, Tube
 
@@ -94,7 +96,7 @@ class FlowLaw:
         if not self.hardening or self.k_mpa <= 0:
             return eps_y
         eps0 = (self.k_mpa / self.youngs_mpa) ** (1.0 / (1.0 - self.n))
-        return max(eps_y, eps0)
+        return float(max(eps_y, eps0))
 
     @property
     def limit_stress(self) -> float:
@@ -108,7 +110,7 @@ class FlowLaw:
             return math.inf
         if self.n <= 0:
             return 0.0 if self.k_mpa > self.yield_mpa else math.inf
-        return max((self.yield_mpa / self.k_mpa) ** (1.0 / self.n), self.limit_strain)
+        return float(max((self.yield_mpa / self.k_mpa) ** (1.0 / self.n), self.limit_strain))
 
     def stress(self, eps: np.ndarray) -> np.ndarray:
         """Stress (MPa) at strain `eps` (fraction, any sign)."""
@@ -116,7 +118,8 @@ class FlowLaw:
         flow = np.full_like(e, self.yield_mpa)
         if self.hardening and self.k_mpa > 0:
             flow = np.maximum(flow, self.k_mpa * e ** self.n)
-        return np.sign(eps) * np.minimum(self.youngs_mpa * e, flow)
+        out: np.ndarray = np.sign(eps) * np.minimum(self.youngs_mpa * e, flow)
+        return out
 
 
 def law_for(material: Material, model: Model = "hardening", scale: float = 1.0) -> FlowLaw:
@@ -126,7 +129,7 @@ def law_for(material: Material, model: Model = "hardening", scale: float = 1.0) 
     return law.scaled(scale) if scale != 1.0 else law
 
 
-def _section_key(profile: Profile) -> tuple:
+def _section_key(profile: Profile) -> tuple[str, float, float]:
     if isinstance(profile, Round):
         return ("round", profile.diameter_mm / 2, 0.0)
     if isinstance(profile, Tube):
@@ -144,11 +147,11 @@ class SectionModel:
         self.law = law
         self.second_moment = profile.second_moment_mm4
         self.ei = law.youngs_mpa * self.second_moment  # N mm^2
-        self._inverse = None
+        self._inverse: tuple[Pchip, Callable[[npt.ArrayLike], np.ndarray], float] | None = None
 
     # -- the section integral -------------------------------------------------
     def _nodes(self, kappa: np.ndarray, top: np.ndarray,
-               to_var) -> tuple[np.ndarray, np.ndarray]:
+               to_var: Callable[[np.ndarray], np.ndarray]) -> tuple[np.ndarray, np.ndarray]:
         """Gauss-Legendre nodes and weights of the integration variable.
 
         The variable runs from 0 to `top` (m,) for m sections at once; `to_var`
@@ -174,7 +177,8 @@ class SectionModel:
         if self.kind == "rect":
             # M = 2 B int_0^c sigma(kappa y) y dy
             y, w = self._nodes(k, np.array([self.c]), lambda y: y)
-            return 2 * self.other * (self.law.stress(kk * y) * y * w).sum(axis=(1, 2))
+            rect: np.ndarray = 2 * self.other * (self.law.stress(kk * y) * y * w).sum(axis=(1, 2))
+            return rect
         # solid round of radius a, with y = a sin(phi):
         # M = 4 a^3 int_0^{pi/2} sigma(kappa a sin phi) sin phi cos^2 phi dphi;
         # a tube is the outer round less the inner one (the stress depends on y only)
@@ -184,7 +188,8 @@ class SectionModel:
         s = np.sin(phi)
         f = self.law.stress(kk * radii[:, None] * s) * s * (1.0 - s * s)
         per = 4 * radii ** 3 * (f * w).sum(axis=2)  # (k, m)
-        return per[:, 0] - per[:, 1] if self.kind == "tube" else per[:, 0]
+        out: np.ndarray = per[:, 0] - per[:, 1] if self.kind == "tube" else per[:, 0]
+        return out
 
     # -- elastic limit and release ---------------------------------------------
     @property
@@ -192,12 +197,12 @@ class SectionModel:
         """Radius (mm) above which the bar springs straight back: c over the strain
         at the end of the elastic line, i.e. E c / Y (trade-notes.md), or E c /
         sigma at the join with the Hollomon curve when that lies above Y."""
-        return self.c / self.law.limit_strain
+        return float(self.c / self.law.limit_strain)
 
     @property
     def first_yield_moment(self) -> float:
         """Moment (N mm) at which the outer fibre reaches the elastic limit."""
-        return self.law.limit_stress * self.second_moment / self.c
+        return float(self.law.limit_stress * self.second_moment / self.c)
 
     def released(self, kappa_held: np.ndarray | float) -> np.ndarray:
         """Curvature after release (1/mm) for curvature held (1/mm); 0 if elastic."""
@@ -231,7 +236,7 @@ class SectionModel:
         return brentq(lambda k: self.released_one(k) - kappa_final, lo, hi,
                       xtol=1e-15, rtol=1e-14)
 
-    def _table(self):
+    def _table(self) -> tuple[Pchip, Callable[[npt.ArrayLike], np.ndarray], float]:
         """Held curvature as a function of released curvature: a monotone
         interpolant (PCHIP) through one vectorised pass of the section integral,
         from the elastic limit to a held radius of half the half-depth."""

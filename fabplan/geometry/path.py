@@ -106,9 +106,10 @@ class Arc3:
 
     def points(self, n: int) -> np.ndarray:
         phi = np.linspace(0.0, self.angle, n + 1)[:, None]
-        return (np.asarray(self.centre) + self.radius * (np.cos(phi) * np.asarray(self.u)
-                + np.sin(phi) * np.asarray(self.v))
-                + self.pitch * phi / (2 * math.pi) * np.asarray(self.axis))
+        radial = np.cos(phi) * np.asarray(self.u) + np.sin(phi) * np.asarray(self.v)
+        pts: np.ndarray = (np.asarray(self.centre) + self.radius * radial
+                           + self.pitch * phi / (2 * math.pi) * np.asarray(self.axis))
+        return pts
 
     def tangent(self, phi: float) -> np.ndarray:
         """The unit tangent at angle `phi` (rad) along the arc."""
@@ -162,7 +163,8 @@ class BendPath:
     heading: Vec = (1.0, 0.0, 0.0)
     normal: Vec = (0.0, 1.0, 0.0)
     gap_mm: float | None = None
-    _cache: dict = field(default_factory=dict, compare=False, repr=False, hash=False)
+    _cache: dict[str, list[Primitive]] = field(default_factory=dict, compare=False, repr=False,
+                                               hash=False)
 
     # -- lengths ------------------------------------------------------------
     @property
@@ -302,8 +304,8 @@ class BendPath:
     def sample(self, step_mm: float) -> tuple[np.ndarray, np.ndarray]:
         """Points on the centreline no further apart than `step_mm`, and their
         centreline distance from end A. Returns (points (N, 3), s (N,))."""
-        pts = []
-        ss = []
+        pts: list[np.ndarray] = []
+        ss: list[np.ndarray] = []
         for prim in self.primitives():
             n = max(1, math.ceil(prim.length / step_mm))
             p = prim.points(n)
@@ -370,7 +372,8 @@ class BendPath:
         pieces = tuple(Straight(p.length_mm * factor) if isinstance(p, Straight)
                        else Bend(p.radius_mm * factor, p.angle_deg, p.rotation_deg,
                                  p.pitch_mm * factor) for p in self.pieces)
-        return BendPath(pieces, tuple(c * factor for c in self.origin), self.heading,
+        o = self.origin
+        return BendPath(pieces, (o[0] * factor, o[1] * factor, o[2] * factor), self.heading,
                         self.normal, None if self.gap_mm is None else self.gap_mm * factor)
 
 
@@ -378,6 +381,6 @@ def _unit(v: np.ndarray) -> np.ndarray:
     return v / float(np.linalg.norm(v))
 
 
-def _vec(v: np.ndarray | tuple) -> Vec:
+def _vec(v: np.ndarray | tuple[float, ...]) -> Vec:
     a = [float(x) for x in v]
     return (a[0], a[1], a[2])
