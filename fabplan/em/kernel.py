@@ -340,8 +340,9 @@ def block_geometry(obs_all: SegmentSet, src_all: SegmentSet, rows: np.ndarray,
 
     `keep` (nI, nJ) bool: the pairs to fill (None: all); `corrections`: (i, j, moments
     (4, P)): extra static moments (M00, M01, M10, M11, times l_i l_j) of pairs (i, j) of
-    segment indices, added where the block holds the pair and keeps it. Returns (block, V0 (4, nI, nJ): the t_i . t_j weighted half pairings of the
-    static moments of 1/(4 pi R), S0 (nI, nJ): M00 / (l_i l_j)), zero where not kept.
+    segment indices, added where the block holds the pair and keeps it. Returns (block,
+    V0 (4, nI, nJ): the t_i . t_j weighted half pairings of the static moments of
+    1/(4 pi R), S0 (nI, nJ): M00 / (l_i l_j)), zero where not kept.
     """
     obs = _take(obs_all, rows)
     src = _take(src_all, cols)
@@ -419,34 +420,41 @@ _WV, _W00 = _pair_weights()
 
 
 def block_halves(block: Block, k: float, omega: float, mu: float, eps: float,
-                 phase: np.ndarray | None = None) -> np.ndarray:
+                 phase: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
     """The smooth part of the half-segment interactions of `block` at wavenumber k (1/m),
-    angular frequency omega: H (4, nI, nJ) complex, in the order rr, rf, fr, ff, with
-    H_c = j omega mu V_c + s_c S / (j omega eps) (s_c the charge signs) and the near pairs'
-    -k^2 R / 2 correction. `phase`: exp(-jkR) at the points, if the caller has it."""
+    angular frequency omega: H (4, nI, nJ) as its real and imaginary parts, in the order
+    rr, rf, fr, ff, with H_c = j omega mu V_c + s_c S / (j omega eps) (s_c the charge
+    signs) and the near pairs' -k^2 R / 2 correction. `phase`: exp(-jkR) at the points, if
+    the caller has it."""
     e = block.phases(k) if phase is None else phase
     n_o, n_s = block.shape
     q2 = e.shape[0]
-    er = (e.real - 1.0) * block.inv_r
+    er = e.real - 1.0
+    er *= block.inv_r
     ei = e.imag * block.inv_r
     er2 = er.reshape(q2, -1)
     ei2 = ei.reshape(q2, -1)
-    x_re = (_WV @ er2).reshape(4, n_o, n_s)
-    x_im = (_WV @ ei2).reshape(4, n_o, n_s)
-    y_re = (_W00 @ er2).reshape(n_o, n_s) * block.p_s
-    y_im = (_W00 @ ei2).reshape(n_o, n_s) * block.p_s
     wm = omega * mu
     we = 1.0 / (omega * eps)
-    h = np.empty((4, n_o, n_s), dtype=complex)
-    x_re *= block.p_v
-    x_im *= block.p_v
-    for c in range(4):
-        sign = CHARGE_SIGN[c] * we
-        h[c].real = -wm * x_im[c] + sign * y_im
-        h[c].imag = wm * x_re[c] - sign * y_re
+    h_im = (_WV @ er2).reshape(4, n_o, n_s)
+    h_re = (_WV @ ei2).reshape(4, n_o, n_s)
+    h_im *= block.p_v * wm
+    h_re *= block.p_v * (-wm)
+    y_re = (_W00 @ er2).reshape(n_o, n_s)
+    y_re *= block.p_s * we
+    y_im = (_W00 @ ei2).reshape(n_o, n_s)
+    y_im *= block.p_s * we
+    # + s_c S / (j omega eps): real part s_c Im(S) / (omega eps), imaginary -s_c Re(S) / ...
+    for c, sign in enumerate(CHARGE_SIGN):
+        if sign > 0:
+            h_re[c] += y_im
+            h_im[c] -= y_re
+        else:
+            h_re[c] -= y_im
+            h_im[c] += y_re
     if len(block.near):
         kk = 0.5 * k * k
-        hv = h.reshape(4, -1)
-        hv.imag[:, block.near] -= kk * (wm * block.fix_v
-                                        - (CHARGE_SIGN * we)[:, None] * block.fix_s[None, :])
-    return h
+        hv = h_im.reshape(4, -1)
+        hv[:, block.near] -= kk * (wm * block.fix_v
+                                   - (CHARGE_SIGN * we)[:, None] * block.fix_s[None, :])
+    return h_re, h_im

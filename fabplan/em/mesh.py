@@ -268,13 +268,14 @@ def _plan_wire(index: int, topo: Topology, h: float, min_seg_per_180: int,
     if not line.closed:
         required[0.0] = "end"
         required[total] = "end"
-    # snap nodes (not gap faces, not ends) lying within a segment of a bend's end onto it
+    # snap junctions on a wire's interior lying within a segment of a bend's end onto it (a
+    # radius step stays where it is: the bend's end node gives way to it instead)
     bounds = [float(s) for s in line.starts[1:]]
     snapped: dict[float, str] = {}
     moved: dict[float, float] = {}
     for s, why in required.items():
         t = s
-        if why in ("node", "step"):
+        if why == "node":
             near = [b for b in bounds if abs(b - s) < min_len]
             if near:
                 t = min(near, key=lambda b: abs(b - s))

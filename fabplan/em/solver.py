@@ -81,6 +81,7 @@ DEFAULT_MAX_UNKNOWNS = 2000
 MAX_FILL_BYTES = 768 * 2 ** 20  # the fill's pair data and matrices may take this much
 _BAND_PAIRS = 48_000  # pairs per block of the fill (rows x columns)
 _RESEED = 32  # a sweep recomputes exp(-jkR) afresh every this many steps
+_SYM_SOLVE_FROM = 400  # from this many rows LAPACK's symmetric solver beats LU (one thread)
 
 
 class _OneBlasThread:
@@ -434,6 +435,15 @@ class WireModel:
                                "wavelength, or raise the cap", field="unknowns",
                                value=self.unknowns)
         self._on_ground = on_ground
+        need = fill_bytes(self.n_seg, self.basis.size, ground_z_m is not None,
+                          rows_per_band=self._bands()[0][1])
+        if need > self.max_fill_bytes:
+            raise FabplanError(
+                f"the fill would take about {need / 2 ** 20:.0f} MiB for {self.n_seg} segments "
+                f"and {self.unknowns} unknowns, above the bound of "
+                f"{self.max_fill_bytes / 2 ** 20:.0f} MiB: lower the top frequency or the "
+                "segments per wavelength, or split the structure", field="segments",
+                value=self.n_seg)
         self._valid_idx = np.nonzero(self.basis.valid)[0]
         self._invalid_idx = np.nonzero(~self.basis.valid)[0]
         self._feed_vectors = {id(f): self._gap_vector(f.segments) for f in self.feeds}
@@ -583,14 +593,6 @@ class WireModel:
         """Geometry-only terms: the blocks' pair data and the static matrices."""
         if self._setup_done:
             return
-        need = self.fill_bytes()
-        if need > self.max_fill_bytes:
-            raise FabplanError(
-                f"the fill would take about {need / 2 ** 20:.0f} MiB for {self.n_seg} segments "
-                f"and {self.unknowns} unknowns, above the bound of "
-                f"{self.max_fill_bytes / 2 ** 20:.0f} MiB: lower the top frequency or the "
-                "segments per wavelength, or split the structure", field="segments",
-                value=self.n_seg)
         seg = self.segments
         s_n = self.n_seg
         n_big = self.basis.size
@@ -682,32 +684,43 @@ class WireModel:
         return zs
 
     def _fill(self, f_hz: float, phases: list[tuple[np.ndarray, np.ndarray | None]] | None,
-              skip_tuned: bool = False) -> np.ndarray:
+              skip_tuned: bool = False, zl: np.ndarray | None = None) -> np.ndarray:
         """The upper triangle of the matrix in basis order (see `_Basis`), unused rows as
-        identity rows, loss and loads included."""
+        identity rows, loss and loads included. `zl`: the segments' internal impedance
+        times their length (ohm), if the caller has it."""
         self._setup()
         omega = 2 * math.pi * f_hz
         k = omega / C0
-        z = np.empty((self.basis.size, self.basis.size), dtype=complex)
-        z.real = 0.0
-        z.imag = (omega * MU0) * self._zv
-        z.imag -= self._zs * (1.0 / (omega * EPS0))
+        n = self.basis.size
+        zr = np.zeros((n, n))
+        zi = self._zv * (omega * MU0)
+        zi -= self._zs * (1.0 / (omega * EPS0))
         s_n = self.n_seg
-        for n, (i0, i1, blk, img) in enumerate(self._blocks):
-            ph_f, ph_i = phases[n] if phases is not None else (None, None)
-            h = block_halves(blk, k, omega, MU0, EPS0, ph_f)
+        for b, (i0, i1, blk, img) in enumerate(self._blocks):
+            ph_f, ph_i = phases[b] if phases is not None else (None, None)
+            h_re, h_im = block_halves(blk, k, omega, MU0, EPS0, ph_f)
             if img is not None:
-                h -= block_halves(img, k, omega, MU0, EPS0, ph_i)
-            _accumulate(z, h, i0, i1, s_n)
+                g_re, g_im = block_halves(img, k, omega, MU0, EPS0, ph_i)
+                h_re -= g_re
+                h_im -= g_im
+            _accumulate(zr, h_re, i0, i1, s_n)
+            _accumulate(zi, h_im, i0, i1, s_n)
         if self._col is not None:
-            n = len(self._blocks)
-            ph_f, ph_i = phases[n] if phases is not None else (None, None)
+            ph_f, ph_i = phases[len(self._blocks)] if phases is not None else (None, None)
             blk, img = self._col
-            h = block_halves(blk, k, omega, MU0, EPS0, ph_f)
+            h_re, h_im = block_halves(blk, k, omega, MU0, EPS0, ph_f)
             if img is not None:
-                h -= block_halves(img, k, omega, MU0, EPS0, ph_i)
-            self._place_extras(z, h)
-        zl = self.internal_impedance(f_hz) * self.segments.length
+                g_re, g_im = block_halves(img, k, omega, MU0, EPS0, ph_i)
+                h_re -= g_re
+                h_im -= g_im
+            self._place_extras(zr, h_re)
+            self._place_extras(zi, h_im)
+        z = np.empty((n, n), dtype=complex)
+        z.real = zr
+        z.imag = zi
+        del zr, zi
+        if zl is None:
+            zl = self.internal_impedance(f_hz) * self.segments.length
         if np.any(zl != 0):
             np.add.at(z, (self._loss_rows, self._loss_cols), zl[self._loss_seg] * self._loss_coef)
         for f, element in self.loads:
@@ -756,13 +769,15 @@ class WireModel:
         corr_free, corr_img = self._corr
         every = np.arange(self.n_seg)
         blk, v0, s0 = block_geometry(seg, seg, every, every, None, _both_orders(corr_free))
-        h = block_halves(blk, k, omega, MU0, EPS0) + 1j * (
-            omega * MU0 * v0 - CHARGE_SIGN[:, None, None] * s0[None] / (omega * EPS0))
+        h_re, h_im = block_halves(blk, k, omega, MU0, EPS0)
+        h = h_re + 1j * (h_im + omega * MU0 * v0
+                         - CHARGE_SIGN[:, None, None] * s0[None] / (omega * EPS0))
         if self._image_segments is not None and corr_img is not None:
             blk, v0, s0 = block_geometry(seg, self._image_segments, every, every, None,
                                          _both_orders(corr_img))
-            h -= block_halves(blk, k, omega, MU0, EPS0) + 1j * (
-                omega * MU0 * v0 - CHARGE_SIGN[:, None, None] * s0[None] / (omega * EPS0))
+            h_re, h_im = block_halves(blk, k, omega, MU0, EPS0)
+            h -= h_re + 1j * (h_im + omega * MU0 * v0
+                              - CHARGE_SIGN[:, None, None] * s0[None] / (omega * EPS0))
         b = self.basis
         v = self._valid_idx
         z = np.zeros((len(v), len(v)), dtype=complex)
@@ -808,19 +823,16 @@ class WireModel:
 
     def _solve(self, f_hz: float, phases: list[tuple[np.ndarray, np.ndarray | None]] | None
                ) -> Solution:
-        from scipy.linalg import solve
-
-        z = self._fill(f_hz, phases)
+        zl = self.internal_impedance(f_hz) * self.segments.length
+        z = self._fill(f_hz, phases, zl=zl)
         e = self._port_vectors()
-        x = solve(z, e.astype(complex), assume_a="sym", lower=False, overwrite_a=True,
-                  check_finite=False)
+        x = _solve_upper(z, e.astype(complex))
         y = e.T @ x  # short-circuit admittances between the ports
         v = np.array([p.voltage for _, p in self.ports], dtype=complex)
         cur = x @ v
         i_port = y @ v
         p_in = 0.5 * float(np.real(np.sum(v * np.conj(i_port))))
         # conductor loss: I^H Re(Z_loss) I over the upper-triangle entries
-        zl = self.internal_impedance(f_hz) * self.segments.length
         p_cond = 0.0
         if np.any(zl != 0):
             r = np.real(zl[self._loss_seg]) * self._loss_coef
@@ -872,8 +884,6 @@ class WireModel:
         treated as one more port: the admittances Y between the ports and that gap give the
         target's admittance as a bilinear function of the capacitor's impedance z, and X = 0
         is a quadratic in its reactance."""
-        from scipy.linalg import solve
-
         (f, cap), = [(f, e) for f, e in self.loads if isinstance(e, TunedCapacitor)]
         f_hz = cap.f_hz
         self._check_frequency(f_hz)
@@ -881,8 +891,7 @@ class WireModel:
         with _OneBlasThread():
             z = self._fill(f_hz, None, skip_tuned=True)
             e = np.concatenate([self._port_vectors(), self._feed_vectors[id(f)][:, None]], axis=1)
-            x = solve(z, e.astype(complex), assume_a="sym", lower=False, overwrite_a=True,
-                      check_finite=False)
+            x = _solve_upper(z, e.astype(complex))
         y = e.T @ x
         n = len(self.ports)
         v = np.array([p.voltage for _, p in self.ports], dtype=complex)
@@ -1012,6 +1021,26 @@ class WireModel:
 
 
 StructureModel = WireModel
+
+
+def _solve_upper(z: np.ndarray, rhs: np.ndarray) -> np.ndarray:
+    """Solve z x = rhs with z symmetric and only its upper triangle filled (z is
+    overwritten): LAPACK's symmetric (Bunch-Kaufman) solver for large systems; for small
+    ones, where LU is the faster on one thread, the lower triangle is mirrored first."""
+    n = len(z)
+    if n >= _SYM_SOLVE_FROM:
+        from scipy.linalg import solve
+
+        return np.asarray(solve(z, rhs, assume_a="sym", lower=False, overwrite_a=True,
+                                check_finite=False))
+    step = 64
+    for i0 in range(0, n, step):
+        i1 = min(i0 + step, n)
+        z[i1:, i0:i1] = z[i0:i1, i1:].T
+        d = z[i0:i1, i0:i1]
+        lo = np.tril_indices(i1 - i0, -1)
+        d[lo] = d.T[lo]
+    return np.asarray(np.linalg.solve(z, rhs))
 
 
 def _accumulate(z: np.ndarray, h: np.ndarray, i0: int, i1: int, s_n: int) -> None:

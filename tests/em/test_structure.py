@@ -11,9 +11,21 @@ from hypothesis import given, settings
 from hypothesis import strategies as st
 
 from fabplan.em.mesh import mesh_structure
-from fabplan.em.solver import C0, structure_model
-from fabplan.em.structure import (Gap, Junction, Load, Placement, Port, Structure,
-                                  TunedCapacitor, Wire, WireEnd, WireGap, close_pairs, resolve)
+from fabplan.em.solver import C0, fill_bytes, structure_model
+from fabplan.em.structure import (
+    Gap,
+    Junction,
+    Load,
+    Placement,
+    Port,
+    Structure,
+    TunedCapacitor,
+    Wire,
+    WireEnd,
+    WireGap,
+    close_pairs,
+    resolve,
+)
 from fabplan.errors import FabplanError
 from fabplan.geometry.path import Bend, BendPath, Straight
 
@@ -147,7 +159,7 @@ def test_close_pairs_match_brute_force(n, reach):
     assert got == want
 
 
-# -- the mesh of a structure ------------------------------------------------------------------------
+# -- the mesh of a structure ---------------------------------------------------------------
 def test_mesh_has_nodes_at_junctions_steps_and_gap_faces():
     # the rules: a node on every junction and radius step, each gap one segment of its
     # real width, neighbours within 2:1 along every wire and across the junctions
@@ -189,11 +201,13 @@ def test_finer_mesh_never_has_fewer_unknowns(length, spacing, f_max, spw, extra)
 def test_a_structure_beyond_the_memory_bound_is_refused_before_filling():
     # the rule: refuse, with one clear line, structures that would exceed the bound
     dip, gap = fed_dipole()
-    model = structure_model(Structure((dip,), wire_gaps=(gap,)), f_max_hz=300e6,
-                            max_fill_bytes=1e5)
+    s = Structure((dip,), wire_gaps=(gap,))
     with pytest.raises(FabplanError, match=r"MiB .* above the bound"):
-        model.solve(300e6)
-    assert model.fill_bytes() > 1e5
+        structure_model(s, f_max_hz=300e6, max_fill_bytes=1e5)
+    model = structure_model(s, f_max_hz=300e6)
+    assert 1e5 < model.fill_bytes() < 64 * 2 ** 20
+    # the estimate grows as the square of the segments (pairs of segments)
+    assert fill_bytes(8000, 8000, False) / fill_bytes(4000, 4000, False) == pytest.approx(4, 0.05)
 
 
 def test_frequency_limits_still_hold_for_structures():
