@@ -3,11 +3,14 @@
 Rules: an arc becomes a polygon whose total length equals the arc's length (the
 interior nodes are pushed radially outward until the chords add up to the arc; the
 arc's end nodes stay on the tangent points so the straights still meet them), with at
-least `min_seg_per_180` segments per 180 degrees and never fewer than two; no segment is
+least `min_seg_per_180` segments per 180 degrees and never fewer than two (an arc of more
+than a quarter turn, a helix, is meshed quarter turn by quarter turn); no segment is
 longer than `h_max_mm`; neighbouring segments stay within 2:1, across bends, junctions
 and gaps too; every gap is one segment of its real width, its neighbours about its
-width (a fixed fraction of it, and never under about two wire radii) whatever the top
-frequency; a free end's last segments are graded to `END_FRACTION` of the longest; a
+width (`GAP_NEIGHBOUR` of it, and never under about two wire radii) whatever the top
+frequency; a free end's last segments are graded down to `END_FRACTION` of the longest
+(no end-cap correction is applied: the current is zero at the end node, the wire's end
+face carries nothing; a thick tube's open end so resonates a little low in frequency); a
 node falls on every junction, radius step and gap face.
 
 How: along each wire a size field h(s) = max(floor, min(h_max, v_k + G d_k(s))) is the
@@ -18,9 +21,10 @@ they agree with the field around them (a fixed point, reached from above). A str
 piece gets n = ceil(integral of ds / h) segments spaced evenly in that integral, an arc
 n = ceil(length / its value) equal ones. Every piece so has at least two segments
 (unless shorter than two minimum segments) and each segment fills 2/3 to 1 of its
-share, which keeps neighbours within 2:1 (slope 0.3: at most 1.93) where pieces meet.
-Each seed and so every count only grows as `h_max_mm` falls: a finer mesh never has
-fewer segments.
+share, which keeps neighbours within 2:1 (slope 0.3: at most 1.93) where pieces meet;
+where a piece is shorter than two of its neighbours' segments (a gap a few millimetres
+from a free end) the ratio can exceed 2. Each seed and so every count only grows as
+`h_max_mm` falls: a finer mesh never has fewer segments.
 
 Units: millimetres.
 """

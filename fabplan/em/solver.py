@@ -626,6 +626,7 @@ class WireModel:
         self._xs = np.unique(b.seg[ex][b.sign[ex] != 0]) if len(ex) else np.zeros(0, np.int64)
         self._col: tuple[Block, Block | None] | None = None
         if len(ex):
+            self._extra_maps()
             both_free = _both_orders(corr_free)
             blk, v0, s0 = block_geometry(seg, seg, np.arange(s_n), self._xs, None, both_free)
             self._place_extras(zv, v0)
@@ -643,27 +644,41 @@ class WireModel:
         log.debug("filled geometry of %d segments (%d unknowns) in %d blocks", s_n,
                   self.unknowns, len(self._blocks))
 
+    def _extra_maps(self) -> None:
+        """Index arrays for `_place_extras`: every slot of the other bases (column, combo
+        offset, source column in `_xs`, sign) and every pair of such slots in the upper
+        triangle (row, column, combo, row segment, source column, sign product)."""
+        b = self.basis
+        p, x = np.nonzero(b.sign[b.extra_start:] != 0)
+        p = p + b.extra_start
+        pos = np.full(self.n_seg, -1)
+        pos[self._xs] = np.arange(len(self._xs))
+        seg, kind, sign = b.seg[p, x], b.kind[p, x], b.sign[p, x]
+        self._ex_col = p
+        self._ex_kind = kind
+        self._ex_y = pos[seg]
+        self._ex_sign = sign
+        rows_q, cols_p = np.meshgrid(np.arange(len(p)), np.arange(len(p)), indexing="ij")
+        upper = p[rows_q] <= p[cols_p]
+        qa, pa = rows_q[upper], cols_p[upper]
+        self._ee = (p[qa], p[pa], 2 * kind[qa] + kind[pa], seg[qa], pos[seg[pa]],
+                    sign[qa] * sign[pa])
+
     def _place_extras(self, z: np.ndarray, h: np.ndarray) -> None:
         """Add the other bases' columns (and their block among themselves) from the half
         interactions h (4, S, X) of every segment with the segments `_xs`."""
-        b = self.basis
         s_n = self.n_seg
-        pos = {int(s): y for y, s in enumerate(self._xs)}
-        for p in range(b.extra_start, b.size):
-            for x in range(2):
-                if b.sign[p, x] == 0:
-                    continue
-                y = pos[int(b.seg[p, x])]
-                k = int(b.kind[p, x])
-                sg = b.sign[p, x]
-                z[1:s_n + 1, p] += sg * h[k, :, y]  # rising half on the row segment: p = i + 1
-                z[0:s_n, p] += sg * h[2 + k, :, y]  # falling half: p = i
-                for q in range(b.extra_start, p + 1):
-                    for xx in range(2):
-                        if b.sign[q, xx] == 0:
-                            continue
-                        kq = int(b.kind[q, xx])
-                        z[q, p] += b.sign[q, xx] * sg * h[2 * kq + k, int(b.seg[q, xx]), y]
+        cols, kind, y, sign = self._ex_col, self._ex_kind, self._ex_y, self._ex_sign
+        # a rising half on the row segment i belongs to p = i + 1, a falling one to p = i
+        start = self.basis.extra_start
+        slab = np.zeros((s_n + 1, self.basis.size - start), dtype=z.dtype)
+        rows = np.arange(s_n)[:, None]
+        at = (cols - start)[None, :]
+        np.add.at(slab, (rows + 1, at), h[kind, :, y].T * sign)
+        np.add.at(slab, (rows, at), h[2 + kind, :, y].T * sign)
+        z[:s_n + 1, start:] += slab
+        rq, cp, combo, seg_q, y_p, sg = self._ee
+        np.add.at(z, (rq, cp), sg * h[combo, seg_q, y_p])
 
     # -- matrix --------------------------------------------------------------------------------
     def internal_impedance(self, f_hz: float) -> np.ndarray:

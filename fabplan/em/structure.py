@@ -366,6 +366,15 @@ class Centreline:
         self.prims = prims
         self.starts = starts[:-1]
         self.length = float(starts[-1])
+        pts, _ = self.sample(max(self.length / 64, 1e-6))
+        # a box holding the whole centreline (samples, widened by the chord error)
+        pad = max(self.length / 64, 1e-6)
+        self.box = (pts.min(axis=0) - pad, pts.max(axis=0) + pad)
+
+    def near_box(self, x: np.ndarray, tol: float) -> bool:
+        """Whether `x` (mm) lies within `tol` of the box holding the centreline."""
+        lo, hi = self.box
+        return bool(np.all(x >= lo - tol) and np.all(x <= hi + tol))
 
     def locate(self, s: float) -> tuple[int, float]:
         """(primitive index, arc length into it) for arc length s (mm)."""
@@ -629,6 +638,8 @@ def resolve(structure: Structure) -> Topology:
             if k in declared_t:
                 continue
             for h, cl in enumerate(lines):
+                if not cl.near_box(pts[k], join_tol):
+                    continue
                 sh, dist = cl.closest(pts[k])
                 if dist > join_tol:
                     continue
@@ -804,7 +815,10 @@ def _proximity(topo: Topology) -> list[Finding]:
     a_min = min(min(w.radii()) for w in wires)
     a_max = max(max(w.radii()) for w in wires)
     total = sum(c.length for c in topo.centrelines)
-    step = max(a_min, total / 20000)
+    reach = CLOSE_DIAMETERS * 2 * a_max
+    # samples about a radius apart (a sixteenth of the reach at most, so that thin wires
+    # beside a thick one do not make a crowd of pairs), and never more than 20000
+    step = max(a_min, total / 20000, reach / 16)
     pts_l, wid_l, s_l, rad_l = [], [], [], []
     for w, c in enumerate(topo.centrelines):
         p, s = c.sample(step)
@@ -816,7 +830,6 @@ def _proximity(topo: Topology) -> list[Finding]:
     wid = np.concatenate(wid_l)
     ss = np.concatenate(s_l)
     rad = np.concatenate(rad_l)
-    reach = CLOSE_DIAMETERS * 2 * a_max
     i, j = close_pairs(pts, reach)
     if len(i) == 0:
         return []
