@@ -449,3 +449,28 @@ def test_sweep_matches_single_solves_for_a_structure():
     z = model.sweep(f)
     for i in (0, 17, 33, 40):
         assert z[i] == pytest.approx(model.impedance(f[i]), rel=1e-9)
+
+
+def test_capacitor_tuned_for_a_port_group():
+    # common practice, no source: the solved capacitor makes the group's reactance zero at its
+    # frequency (the group's admittance is a bilinear function of the capacitor's impedance);
+    # two small loops 0.4 wavelength apart fed in parallel, the capacitor in the first: of
+    # the two capacitances that do it, the series resonance of the first loop is taken
+    b = 0.05 * LAM / (2 * math.pi)
+    length = 2 * math.pi * b
+
+    def loop(x: float) -> Wire:
+        return Wire(BendPath((Bend(b, 360.0),), origin=(x + b, 0, 0), heading=(0, 1.0, 0),
+                             normal=(-1.0, 0, 0)), 0.1, closed=True)
+
+    gaps = (WireGap(0, length / 4, 1.0, Port("a", group="pair")),
+            WireGap(1, length / 4, 1.0, Port("b", group="pair")))
+    alone = structure_model(Structure((loop(0.0),), wire_gaps=(
+        WireGap(0, length / 4, 1.0, Port()), WireGap(0, 3 * length / 4, 1.0, Load("s")))),
+        f_max_hz=F0).impedance(F0)
+    cap = WireGap(0, 3 * length / 4, 1.0, TunedCapacitor(F0, "pair"))
+    model = structure_model(Structure((loop(0.0), loop(400.0)), wire_gaps=(*gaps, cap)),
+                            f_max_hz=F0)
+    sol = model.solve(F0)
+    assert abs(sol.z_groups["pair"].imag) < 1e-6 * abs(sol.z_groups["pair"])
+    assert sol.capacitance_f == pytest.approx(1 / (2 * math.pi * F0 * alone.imag), rel=0.01)
