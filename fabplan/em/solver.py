@@ -553,13 +553,9 @@ class WireModel:
             idx = np.asarray(segs)
             fl = np.asarray(flips)
             reach = self._reach(idx)
-            if len(idx) > 1 or closed:
-                ci, cj, mom = exact_kernel_correction(seg.length[idx], seg.radius[idx], closed,
-                                                      reach)
-                free.append(_orient(idx[ci], idx[cj], fl[ci], fl[cj], mom))
-            else:
-                ci, cj, mom = exact_kernel_correction(seg.length[idx], seg.radius[idx], False, 0)
-                free.append(_orient(idx[ci], idx[cj], fl[ci], fl[cj], mom))
+            ci, cj, mom = exact_kernel_correction(seg.length[idx], seg.radius[idx], closed,
+                                                  reach)
+            free.append(_orient(idx[ci], idx[cj], fl[ci], fl[cj], mom))
             if self.ground_z is None:
                 continue
             first = self.seg_end[idx[0]] if fl[0] else self.seg_start[idx[0]]
