@@ -12,7 +12,13 @@ static part 1/(4 pi R), integrated once per geometry (exactly on the inner
 segment, by graded Gauss quadrature on the outer one for near pairs; plain
 Gauss for far pairs), and the smooth remainder (exp(-jkR) - 1)/(4 pi R),
 integrated per frequency by a few Gauss points on each segment, with the
-distances precomputed. Lengths in metres here.
+distances precomputed.
+
+The kernel is symmetric: M_pq(j, i) = M_qp(i, j). The fill keeps only pairs i <= j, in
+`Block`s of rows [i0, i1) against columns [i0, S) (pairs with j < i inside a block are
+zeroed), so each pair is integrated once; the half-segment pairings of a pair are
+rising-rising, rising-falling, falling-rising and falling-falling ("rr", "rf", "fr",
+"ff"), and swapping the pair swaps "rf" with "fr". Lengths in metres here.
 """
 
 from __future__ import annotations
@@ -22,8 +28,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
-__all__ = ["SegmentSet", "PairIntegrals", "pair_integrals", "segment_distance",
-           "exact_kernel_correction"]
+__all__ = ["SegmentSet", "Block", "block_geometry", "block_halves", "segment_distance",
+           "exact_kernel_correction", "COMBO", "SWAP", "CHARGE_SIGN"]
 
 _Q_SMOOTH = 2  # Gauss points per segment for the smooth remainder
 _Q_STATIC = 4  # Gauss points per segment for the static part of far pairs
@@ -50,7 +56,7 @@ class SegmentSet:
 
     @property
     def end(self) -> np.ndarray:
-        return self.start + self.direction * self.length[:, None]
+        return np.asarray(self.start + self.direction * self.length[:, None])
 
     @property
     def count(self) -> int:
@@ -84,108 +90,13 @@ def segment_distance(a0: np.ndarray, a1: np.ndarray, b0: np.ndarray,
         s = np.clip((b * t - c) / a, 0, 1)
     p = a0 + d1 * s[..., None]
     q = b0 + d2 * t[..., None]
-    return np.linalg.norm(p - q, axis=-1)
+    return np.asarray(np.linalg.norm(p - q, axis=-1))
 
 
-@dataclass
-class PairIntegrals:
-    """Geometry-only data for every (observation, source) pair of segments.
-
-    `static` (4, S_obs, S_src): the moments of 1/(4 pi R) (m), order M00, M01,
-    M10, M11 (first index: power of u on the observation segment). For the smooth
-    remainder, every pair (flattened row-major) carries the Gauss-point distances
-    `r` (q*q, P) and weights `w` (q*q, 4); near pairs (`near`, flat indices) also
-    carry `near_fix` (4, P_near): the exact minus the Gauss moments of R/(4 pi),
-    so that the -k^2 R/2 term of the remainder, which has a kink, is integrated
-    exactly. (Keeping every pair, not only i <= j, costs less than scattering a
-    triangle back into a square at every frequency.)
-    """
-
-    static: np.ndarray
-    r: np.ndarray
-    w: np.ndarray
-    scale: np.ndarray  # (P,) l_i l_j / (4 pi)
-    near: np.ndarray  # flat indices of the near pairs
-    near_fix: np.ndarray
-    symmetric: bool
-
-    def __post_init__(self) -> None:
-        self._inv_r = 1.0 / self.r
-        self._wt = np.ascontiguousarray(self.w.T)
-        self._tri_r: np.ndarray | None = None
-        self._tri_map: np.ndarray | None = None
-        n_o, n_s = self.static.shape[1:]
-        if self.symmetric and n_o == n_s:
-            # exp(-jkR) on i <= j only, then gathered: pair (j, i) point (a, b) is (i, j) (b, a)
-            q2 = self.r.shape[0]
-            q = int(round(math.sqrt(q2)))
-            ti, tj = np.triu_indices(n_o)
-            pos = np.empty((n_o, n_o), dtype=np.int64)
-            pos[ti, tj] = np.arange(len(ti))
-            pos[tj, ti] = np.arange(len(ti))
-            pts = np.arange(q2)
-            swapped_pts = (pts % q) * q + pts // q
-            lower = np.tril(np.ones((n_o, n_o), bool), -1).ravel()
-            # layout (q*q, P): point-major, so the map is point * P_tri + pair
-            n_tri = len(ti)
-            point = np.where(lower[None, :], swapped_pts[:, None], pts[:, None])
-            self._tri_map = (point * n_tri + pos.ravel()[None, :]).ravel()
-            self._tri_r = np.ascontiguousarray(self.r[:, ti * n_o + tj])
-
-    def symmetrise(self) -> None:
-        """Average M(i, j) with M(j, i) (u and v swapped): the pair set is symmetric, and
-        the near-pair quadratures of the two orders differ by about 1e-7."""
-        if self.symmetric:
-            self.static = 0.5 * (self.static + self.static[[0, 2, 1, 3]].transpose(0, 2, 1))
-
-    def phase(self, k: float) -> np.ndarray:
-        """exp(-j k R) at the smooth-part quadrature points, (q*q, P)."""
-        if self._tri_r is not None and self._tri_map is not None:
-            return np.take(np.exp(-1j * k * self._tri_r), self._tri_map).reshape(self.r.shape)
-        return np.exp(-1j * k * self.r)
-
-    def prepare(self, obs: SegmentSet, src: SegmentSet) -> None:
-        """Fold the per-pair factors into the data once `static` is final.
-
-        The matrix needs, per pair, the vector-potential moments of the four pairings of
-        rising (u) and falling (1 - u) halves weighted by t_i . t_j, and the scalar-potential
-        moment M00 / (l_i l_j). Both are linear in the moments, so the weights and the
-        per-pair factors absorb them and each frequency costs two small products.
-        """
-        # rows: rising-rising, rising-falling, falling-rising, falling-falling
-        combo = np.array([[0, 0, 0, 1], [0, 0, 1, -1], [0, 1, 0, -1], [1, -1, -1, 1]], float)
-        n_o, n_s = self.static.shape[1:]
-        tt = (obs.direction @ src.direction.T).ravel()
-        inv_ll = (1.0 / (obs.length[:, None] * src.length[None, :])).ravel()
-        flat = self.static.reshape(4, -1)
-        self._static_v = (combo @ flat) * tt
-        self._static_s = flat[0] * inv_ll
-        self._w_v = np.ascontiguousarray((self.w @ combo.T).T)  # (4, q*q)
-        self._w_s = np.ascontiguousarray(self.w[:, 0])[None, :]  # (1, q*q)
-        self._inv_v = self._inv_r * (self.scale * tt)[None, :]
-        self._inv_s = self._inv_r * (self.scale * inv_ll)[None, :]
-        self._fix_v = (combo @ self.near_fix) * tt[self.near]
-        self._fix_s = self.near_fix[0] * inv_ll[self.near]
-        self._shape = (n_o, n_s)
-
-    def fill(self, k: float, phase: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
-        """At wavenumber k (1/m): V (4, S_obs, S_src), the t_i . t_j weighted moments of G
-        for the four half pairings, and S (S_obs, S_src), M00 / (l_i l_j), both complex
-        (G = exp(-jkR) / (4 pi R)). Call `prepare` first."""
-        e = self.phase(k) if phase is None else phase
-        er = e.real - 1.0
-        ei = e.imag
-        v = np.empty(self._static_v.shape, dtype=complex)
-        v.real = self._static_v + self._w_v @ (er * self._inv_v)
-        v.imag = self._w_v @ (ei * self._inv_v)
-        s = np.empty(self._static_s.shape, dtype=complex)
-        s.real = self._static_s + (self._w_s @ (er * self._inv_s))[0]
-        s.imag = (self._w_s @ (ei * self._inv_s))[0]
-        if len(self.near):
-            kk = 0.5 * k * k
-            v[:, self.near] -= kk * self._fix_v
-            s[self.near] -= kk * self._fix_s
-        return v.reshape(4, *self._shape), s.reshape(self._shape)
+# half pairings rr, rf, fr, ff from the moments M00, M01, M10, M11 (u on the observer)
+COMBO = np.array([[0, 0, 0, 1], [0, 0, 1, -1], [0, 1, 0, -1], [1, -1, -1, 1]], float)
+SWAP = [0, 2, 1, 3]  # the pair (j, i) from (i, j): M01 <-> M10, and rf <-> fr
+CHARGE_SIGN = np.array([1.0, -1.0, -1.0, 1.0])  # charge of rising +1/l, falling -1/l
 
 
 def _weights(u: np.ndarray, wu: np.ndarray, v: np.ndarray, wv: np.ndarray) -> np.ndarray:
@@ -198,8 +109,8 @@ def _weights(u: np.ndarray, wu: np.ndarray, v: np.ndarray, wv: np.ndarray) -> np
 
 def _grid_points(seg: SegmentSet, u: np.ndarray) -> np.ndarray:
     """(S, len(u), 3) points at parameters u on every segment."""
-    return seg.start[:, None, :] + seg.direction[:, None, :] * (seg.length[:, None, None]
-                                                               * u[None, :, None])
+    step = seg.length[:, None, None] * u[None, :, None]
+    return np.asarray(seg.start[:, None, :] + seg.direction[:, None, :] * step)
 
 
 def _grid_d2(obs: SegmentSet, src: SegmentSet, u: np.ndarray, centre: np.ndarray) -> np.ndarray:
@@ -210,56 +121,7 @@ def _grid_d2(obs: SegmentSet, src: SegmentSet, u: np.ndarray, centre: np.ndarray
           - 2.0 * (po @ ps.T))
     q = len(u)
     d2 = d2.reshape(obs.count, q, src.count, q).transpose(0, 2, 1, 3)
-    return np.maximum(d2, 0.0).reshape(obs.count, src.count, q * q)
-
-
-def pair_integrals(obs: SegmentSet, src: SegmentSet, symmetric: bool = False) -> PairIntegrals:
-    """All geometry-only integrals between `obs` and `src` segments.
-
-    `symmetric`: the pair set is symmetric (free space, or a set against its own
-    mirror image), so only i <= j is kept for the per-frequency work.
-    """
-    a2 = 0.5 * (obs.radius[:, None] ** 2 + src.radius[None, :] ** 2)
-    len_prod = obs.length[:, None] * src.length[None, :]
-    centre = obs.start.mean(axis=0)
-
-    # static part, far pairs: plain Gauss
-    us, ws = _gauss01(_Q_STATIC)
-    inv = 1.0 / np.sqrt(_grid_d2(obs, src, us, centre) + a2[:, :, None])
-    static = np.einsum("ijq,qm->mij", inv, _weights(us, ws, us, ws))
-
-    # smooth remainder: Gauss grid distances on every pair
-    u, w = _gauss01(_Q_SMOOTH)
-    n_o, n_s = obs.count, src.count
-    r = np.ascontiguousarray(
-        np.sqrt(_grid_d2(obs, src, u, centre) + a2[:, :, None]).reshape(n_o * n_s, -1).T)
-    w_s = _weights(u, w, u, w)
-    scale = (len_prod / (4 * math.pi)).ravel()
-
-    # near pairs: exact inner integral, graded outer quadrature
-    gap = segment_distance(obs.start[:, None, :], obs.end[:, None, :],
-                           src.start[None, :, :], src.end[None, :, :])
-    is_near = gap < _NEAR * np.maximum(obs.length[:, None], src.length[None, :])
-    if symmetric:
-        is_near = np.triu(is_near)
-    ii, jj = np.nonzero(is_near)
-    near = np.zeros(0, dtype=int)
-    near_fix = np.zeros((4, 0))
-    if len(ii):
-        m_inv, m_r = _near_moments(obs, src, ii, jj, a2[ii, jj])
-        static[:, ii, jj] = m_inv
-        flat = ii * n_s + jj
-        near_fix = (m_r - (r[:, flat].T @ w_s).T) * scale[flat]
-        near = flat
-        if symmetric:  # M(j, i) is M(i, j) with u and v swapped
-            off = ii != jj
-            static[:, jj[off], ii[off]] = m_inv[[0, 2, 1, 3]][:, off]
-            flat_t = jj[off] * n_s + ii[off]
-            fix_t = (m_r[[0, 2, 1, 3]][:, off] - (r[:, flat_t].T @ w_s).T) * scale[flat_t]
-            near = np.concatenate([flat, flat_t])
-            near_fix = np.concatenate([near_fix, fix_t], axis=1)
-    static *= len_prod / (4 * math.pi)
-    return PairIntegrals(static, r, w_s, scale, near, near_fix, symmetric)
+    return np.asarray(np.maximum(d2, 0.0).reshape(obs.count, src.count, q * q))
 
 
 def _graded_template(levels: int) -> np.ndarray:
@@ -296,17 +158,18 @@ def _near_moments(obs: SegmentSet, src: SegmentSet, ii: np.ndarray, jj: np.ndarr
     rho2 = np.maximum(np.einsum("pqk,pqk->pq", rel, rel) - x * x, 0.0)
     h2 = rho2 + a2[:, None]
     h = np.sqrt(h2)
-    l = lj[:, None]
-    r_hi = np.sqrt((l - x) ** 2 + h2)
+    lc = lj[:, None]
+    r_hi = np.sqrt((lc - x) ** 2 + h2)
     r_lo = np.sqrt(x * x + h2)
-    f0 = np.arcsinh((l - x) / h) + np.arcsinh(x / h)  # int_0^l ds / R
-    f1 = (r_hi - r_lo + x * f0) / l  # int (s/l) ds / R
-    g0 = 0.5 * ((l - x) * r_hi + x * r_lo + h2 * f0)  # int_0^l R ds
-    g1 = ((r_hi ** 3 - r_lo ** 3) / 3 + x * g0) / l  # int (s/l) R ds
+    f0 = np.arcsinh((lc - x) / h) + np.arcsinh(x / h)  # int_0^l ds / R
+    f1 = (r_hi - r_lo + x * f0) / lc  # int (s/l) ds / R
+    g0 = 0.5 * ((lc - x) * r_hi + x * r_lo + h2 * f0)  # int_0^l R ds
+    g1 = ((r_hi ** 3 - r_lo ** 3) / 3 + x * g0) / lc  # int (s/l) R ds
 
     def moments(a0: np.ndarray, a1: np.ndarray) -> np.ndarray:
-        return np.stack([np.sum(wu * a0, axis=1), np.sum(wu * a1, axis=1),
-                         np.sum(wu * u * a0, axis=1), np.sum(wu * u * a1, axis=1)]) / lj
+        return np.asarray(np.stack([np.sum(wu * a0, axis=1), np.sum(wu * a1, axis=1),
+                                    np.sum(wu * u * a0, axis=1), np.sum(wu * u * a1, axis=1)])
+                          / lj)
 
     return moments(f0, f1), moments(g0, g1)
 
@@ -354,7 +217,7 @@ def exact_kernel_correction(length: np.ndarray, radius: np.ndarray, closed: bool
     jj_a = np.concatenate([p[1] for p in parts])
     c = np.concatenate([p[2] for p in parts]).astype(float)
     touching = np.concatenate([np.full(len(p[0]), abs(d) <= 1) for p, d in
-                               zip(parts, sorted(range(-reach, reach + 1), key=abs))])
+                               zip(parts, sorted(range(-reach, reach + 1), key=abs), strict=True)])
     mom = np.empty((4, len(c)))
     a2 = 0.5 * (radius[ii_a] ** 2 + radius[jj_a] ** 2)
     a_min = float(np.sqrt(a2.min()))
@@ -406,5 +269,192 @@ def _correction_moments(li: np.ndarray, lj: np.ndarray, c: np.ndarray, a2: np.nd
 
     w_hi, w_lo = prim(u_hi), prim(u_lo)
     mom = np.stack([np.sum(wy * dk * (h - l_) / lj[:, None], axis=1)
-                    for h, l_ in zip(w_hi, w_lo)])
-    return mom * (li * lj / (4 * math.pi))
+                    for h, l_ in zip(w_hi, w_lo, strict=True)])
+    return np.asarray(mom * (li * lj / (4 * math.pi)))
+
+
+# -- blocks of pairs ----------------------------------------------------------------------------
+@dataclass
+class Block:
+    """Geometry-only data for rows `rows` (observer segment indices) against columns `cols`
+    (source segment indices, into the source set: the segments or their images).
+
+    `inv_r` (q*q, nI, nJ): 1/R at the smooth part's Gauss points; `p_v` (nI, nJ):
+    t_i . t_j l_i l_j / (4 pi), `p_s` (nI, nJ): 1/(4 pi) (both zero for pairs left out);
+    `near` (flat indices into nI*nJ) with `fix_v` (4, Pn) and `fix_s` (Pn,): the exact
+    minus the Gauss moments of R (as `p_v`-weighted pairings and as M00 / (l_i l_j)), for
+    the -k^2 R / 2 term of the remainder, which has a kink. `phase` and `rot` hold
+    exp(-jkR) and exp(-j dk R) during an evenly spaced sweep."""
+
+    rows: np.ndarray
+    cols: np.ndarray
+    inv_r: np.ndarray
+    p_v: np.ndarray
+    p_s: np.ndarray
+    near: np.ndarray
+    fix_v: np.ndarray
+    fix_s: np.ndarray
+    phase: np.ndarray | None = None
+    rot: np.ndarray | None = None
+
+    @property
+    def shape(self) -> tuple[int, int]:
+        return (len(self.rows), len(self.cols))
+
+    @property
+    def nbytes(self) -> int:
+        out = self.inv_r.nbytes + self.p_v.nbytes + self.p_s.nbytes
+        for a in (self.phase, self.rot):
+            if a is not None:
+                out += a.nbytes
+        return out
+
+    def phases(self, k: float) -> np.ndarray:
+        """exp(-j k R) at the smooth part's points (q*q, nI, nJ)."""
+        with np.errstate(divide="ignore"):
+            r = 1.0 / self.inv_r
+        return np.asarray(np.exp(-1j * k * r))
+
+
+def _take(seg: SegmentSet, idx: np.ndarray) -> SegmentSet:
+    return SegmentSet(seg.start[idx], seg.direction[idx], seg.length[idx], seg.radius[idx])
+
+
+def _block_d2(po: np.ndarray, ps: np.ndarray, centre: np.ndarray, n_o: int, n_s: int,
+              q: int) -> np.ndarray:
+    """Squared distances (q*q, n_o, n_s) between points po (n_o*q, 3) and ps (n_s*q, 3),
+    observer point major."""
+    a = po - centre
+    b = ps - centre
+    d2 = np.einsum("ik,ik->i", a, a)[:, None] + np.einsum("ik,ik->i", b, b)[None, :] \
+        - 2.0 * (a @ b.T)
+    d2 = d2.reshape(n_o, q, n_s, q).transpose(1, 3, 0, 2).reshape(q * q, n_o, n_s)
+    return np.asarray(np.maximum(d2, 0.0))
+
+
+def block_geometry(obs_all: SegmentSet, src_all: SegmentSet, rows: np.ndarray,
+                   cols: np.ndarray, keep: np.ndarray | None,
+                   corrections: tuple[np.ndarray, np.ndarray, np.ndarray] | None = None
+                   ) -> tuple[Block, np.ndarray, np.ndarray]:
+    """The block of pairs (rows x cols) and its static part.
+
+    `keep` (nI, nJ) bool: the pairs to fill (None: all); `corrections`: (i, j, moments
+    (4, P)): extra static moments (M00, M01, M10, M11, times l_i l_j) of pairs (i, j) of
+    segment indices, added where the block holds the pair and keeps it. Returns (block,
+    V0 (4, nI, nJ): the t_i . t_j weighted half pairings of the static moments of
+    1/(4 pi R), S0 (nI, nJ): M00 / (l_i l_j)), zero where not kept.
+    """
+    obs = _take(obs_all, rows)
+    src = _take(src_all, cols)
+    n_o, n_s = obs.count, src.count
+    a2 = 0.5 * (obs.radius[:, None] ** 2 + src.radius[None, :] ** 2)
+    len_prod = obs.length[:, None] * src.length[None, :]
+    centre = obs_all.start.mean(axis=0)
+    scale = len_prod / (4 * math.pi)
+    # static part, far pairs: plain Gauss
+    us, ws = _gauss01(_Q_STATIC)
+    d2 = _block_d2(_grid_points(obs, us).reshape(-1, 3), _grid_points(src, us).reshape(-1, 3),
+                   centre, n_o, n_s, _Q_STATIC)
+    inv = 1.0 / np.sqrt(d2 + a2[None])
+    del d2
+    static = np.tensordot(_weights(us, ws, us, ws).T, inv, axes=1)  # (4, n_o, n_s)
+    del inv
+    # smooth remainder: the Gauss points' distances
+    u, w = _gauss01(_Q_SMOOTH)
+    w_s = _weights(u, w, u, w)
+    r = np.sqrt(_block_d2(_grid_points(obs, u).reshape(-1, 3),
+                          _grid_points(src, u).reshape(-1, 3), centre, n_o, n_s, _Q_SMOOTH)
+                + a2[None])
+    # near pairs: exact inner integral, graded outer quadrature
+    gap = segment_distance(obs.start[:, None, :], obs.end[:, None, :],
+                           src.start[None, :, :], src.end[None, :, :])
+    is_near = gap < _NEAR * np.maximum(obs.length[:, None], src.length[None, :])
+    if keep is not None:
+        is_near &= keep
+    ii, jj = np.nonzero(is_near)
+    near_fix = np.zeros((4, 0))
+    if len(ii):
+        m_inv, m_r = _near_moments(obs, src, ii, jj, a2[ii, jj])
+        static[:, ii, jj] = m_inv
+        gauss = np.einsum("qp,qm->mp", r[:, ii, jj], w_s)
+        near_fix = (m_r - gauss) * scale[ii, jj]
+    static *= scale[None]
+    if corrections is not None and len(corrections[0]):
+        ci, cj, mom = corrections
+        size = int(max(obs_all.count, src_all.count))
+        row_pos = np.full(size, -1)
+        row_pos[rows] = np.arange(n_o)
+        col_pos = np.full(size, -1)
+        col_pos[cols] = np.arange(n_s)
+        a, b = row_pos[ci], col_pos[cj]
+        ok = (a >= 0) & (b >= 0)
+        if keep is not None:
+            ok[ok] &= keep[a[ok], b[ok]]
+        for m in range(4):
+            np.add.at(static[m], (a[ok], b[ok]), mom[m, ok])
+    tt = obs.direction @ src.direction.T
+    p_v = tt * scale
+    p_s = np.full((n_o, n_s), 1.0 / (4 * math.pi))
+    v0 = np.tensordot(COMBO, static, axes=1) * tt[None]
+    s0 = static[0] / len_prod
+    if keep is not None:
+        p_v = np.where(keep, p_v, 0.0)
+        p_s = np.where(keep, p_s, 0.0)
+        v0 *= keep[None]
+        s0 = np.where(keep, s0, 0.0)
+    flat = ii * n_s + jj
+    fix_v = (COMBO @ near_fix) * tt[ii, jj] if len(ii) else np.zeros((4, 0))
+    fix_s = near_fix[0] / len_prod[ii, jj] if len(ii) else np.zeros(0)
+    block = Block(np.asarray(rows), np.asarray(cols), np.ascontiguousarray(1.0 / r), p_v, p_s,
+                  flat, fix_v, fix_s)
+    return block, v0, s0
+
+
+def _pair_weights() -> tuple[np.ndarray, np.ndarray]:
+    u, w = _gauss01(_Q_SMOOTH)
+    w_s = _weights(u, w, u, w)  # (q*q, 4)
+    return np.ascontiguousarray(COMBO @ w_s.T), np.ascontiguousarray(w_s[:, 0])
+
+
+_WV, _W00 = _pair_weights()
+
+
+def block_halves(block: Block, k: float, omega: float, mu: float, eps: float,
+                 phase: np.ndarray | None = None) -> tuple[np.ndarray, np.ndarray]:
+    """The smooth part of the half-segment interactions of `block` at wavenumber k (1/m),
+    angular frequency omega: H (4, nI, nJ) as its real and imaginary parts, in the order
+    rr, rf, fr, ff, with H_c = j omega mu V_c + s_c S / (j omega eps) (s_c the charge
+    signs) and the near pairs' -k^2 R / 2 correction. `phase`: exp(-jkR) at the points, if
+    the caller has it."""
+    e = block.phases(k) if phase is None else phase
+    n_o, n_s = block.shape
+    q2 = e.shape[0]
+    er = e.real - 1.0
+    er *= block.inv_r
+    ei = e.imag * block.inv_r
+    er2 = er.reshape(q2, -1)
+    ei2 = ei.reshape(q2, -1)
+    wm = omega * mu
+    we = 1.0 / (omega * eps)
+    h_im = (_WV @ er2).reshape(4, n_o, n_s)
+    h_re = (_WV @ ei2).reshape(4, n_o, n_s)
+    h_im *= block.p_v * wm
+    h_re *= block.p_v * (-wm)
+    y_re = (_W00 @ er2).reshape(n_o, n_s)
+    y_re *= block.p_s * we
+    y_im = (_W00 @ ei2).reshape(n_o, n_s)
+    y_im *= block.p_s * we
+    # + s_c S / (j omega eps): real part s_c Im(S) / (omega eps), imaginary -s_c Re(S) / ...
+    for c, sign in enumerate(CHARGE_SIGN):
+        if sign > 0:
+            h_re[c] += y_im
+            h_im[c] -= y_re
+        else:
+            h_re[c] -= y_im
+            h_im[c] += y_re
+    if len(block.near):
+        kk = 0.5 * k * k
+        hv = h_im.reshape(4, -1)
+        hv[:, block.near] -= kk * (wm * block.fix_v
+                                   - (CHARGE_SIGN * we)[:, None] * block.fix_s[None, :])
+    return h_re, h_im
