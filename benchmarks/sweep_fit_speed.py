@@ -35,15 +35,15 @@ def median_time(fn: Callable[[], object], runs: int = 5) -> float:
 
 def example_model():
     from fabplan import load_design, make_plan
-    from fabplan.em.stage import element_model
+    from fabplan.em.stage import structure_model_of
     from fabplan.plan import electrical_input
 
     plan = make_plan(load_design(ROOT / "examples" / "club-uhf-folded-dipoles.toml"))
     settings = plan.design.electrical
     freqs = settings.frequencies()
     e = plan.elements[0]
-    return element_model(electrical_input(plan.design, e.spec, e.pieces), settings,
-                         float(freqs[-1])), freqs
+    inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)]
+    return structure_model_of(inputs, settings, float(freqs[-1]), {}), freqs
 
 
 def folded_dipole_model(unknowns_target: int):

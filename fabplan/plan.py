@@ -22,8 +22,9 @@ from dataclasses import dataclass
 from .design.forming import FormingSettings
 from .design.jig import JigSettings
 from .design.model import Design, ElementSpec, StockSpec
+from .em.build import ElectricalInput
 from .em.records import ElementElectrical, PlanElectrical
-from .em.stage import ElectricalInput, electrical
+from .em.stage import electrical
 from .errors import Finding
 from .estimate.records import ElementEstimate, Order
 from .estimate.stage import estimate
@@ -70,7 +71,7 @@ class ElementPlan:
         return self.spec.quantity
 
     @property
-    def placement(self) -> Placement:
+    def placement(self) -> Placement | None:
         return self.spec.placement
 
     @property
@@ -189,7 +190,8 @@ def make_plan(design: Design) -> Plan:
     checked: tuple[ElementElectrical | None, ...] = (None,) * len(specs)
     plan_electrical = None
     if design.electrical is not None:
-        inputs = [electrical_input(design, spec, pieces) for spec, pieces in zip(specs, formed)]
+        inputs = [electrical_input(design, spec, geometry, pieces)
+                  for spec, geometry, pieces in zip(specs, geometries, formed)]
         checked, plan_electrical, em_found = electrical(inputs, design.electrical)
         findings += em_found
     elements = tuple(ElementPlan(*parts) for parts in zip(specs, geometries, formed,
@@ -202,14 +204,12 @@ def _piece_name(spec: ElementSpec, piece: PieceCore) -> str:
     return spec.name if not piece.label else f"{spec.name}, {piece.label}"
 
 
-def electrical_input(design: Design, spec: ElementSpec,
-                     pieces: tuple[PiecePlan, ...]) -> ElectricalInput | None:
-    """What the electrical stage models of an element (None for an element of
-    several pieces, which the single-element model cannot take)."""
-    if len(pieces) != 1:
-        return None
-    piece = pieces[0]
-    return ElectricalInput(spec, design.stock_of(spec), piece, piece.forming)
+def electrical_input(design: Design, spec: ElementSpec, geometry: ElementGeometry,
+                     pieces: tuple[PiecePlan, ...]) -> ElectricalInput:
+    """What the electrical stage models of an element: its spec and stock, its pieces
+    of stock with their forming figures, and the gaps between their ends."""
+    return ElectricalInput(spec, design.stock_of(spec), tuple(pieces),
+                           tuple(p.forming for p in pieces), geometry)
 
 
 def jig_pieces(plan: Plan) -> list[JigPiece]:

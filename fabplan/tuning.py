@@ -29,8 +29,9 @@ import numpy as np
 
 from .design.electrical import ElectricalSettings
 from .design.model import Design
+from .em.build import ElectricalInput, groups
 from .em.records import UNCERTAINTY_FRAC
-from .em.stage import ElectricalInput, ModelFactory, element_model
+from .em.stage import ModelFactory, structure_model_of
 from .em.sweep import Model, least_swr, resonance
 from .errors import DesignError, FabplanError
 from .feed import C0_M_S
@@ -164,11 +165,12 @@ class _Evaluator:
         self.params = element.spec.params
         self.key, self.value = self.shape.governing(self.params)
         self.models = 0
-        model_input = electrical_input(plan.design, element.spec, element.pieces)
-        if model_input is None:
-            raise DesignError("an element of several pieces cannot be tuned alone",
-                              field="--element", value=element.name)
-        self.input: ElectricalInput = model_input
+        inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
+                  for e in plan.elements]
+        index = plan.elements.index(element)
+        group = next(g for g in groups(inputs) if index in g)
+        self.group: list[ElectricalInput] = [inputs[i] for i in group]
+        self.input: ElectricalInput = inputs[index]
 
     def __call__(self, value_mm: float, expect_hz: float, span_frac: float = BRACKET_FRAC,
                  points: int = 9) -> float:
@@ -181,7 +183,7 @@ class _Evaluator:
         # the sweep's top frequency sets the mesh, as in the plan's own check, so the
         # tuned length gives the same answer there
         f_max = max(self.settings.sweep_to_hz, expect_hz * (1 + span_frac))
-        model = self.factory(self.input, self.settings, f_max, params)
+        model = self.factory(self.group, self.settings, f_max, {self.element.name: params})
         self.models += 1
         f = feature_hz(model, self.settings, self.tune_for, expect_hz, span_frac, points)
         log.debug("tune %s: %s = %.4f mm -> %.6f MHz (%d unknowns)", self.element.name,
@@ -196,7 +198,7 @@ def _core_piece(design: Design, element: ElementPlan, params: Any) -> PieceCore:
 
 
 def tune(plan: Plan, element: ElementPlan, settings: ElectricalSettings, target_hz: float, *,
-         tune_for: str | None = None, factory: ModelFactory = element_model) -> TuneResult:
+         tune_for: str | None = None, factory: ModelFactory = structure_model_of) -> TuneResult:
     """The governing length that puts least SWR (or resonance) on `target_hz`."""
     tune_for = tune_for or settings.tune_for
     ev = _Evaluator(plan, element, settings, tune_for, factory)
@@ -265,7 +267,7 @@ def proportional_length(length_mm: float, measured_hz: float, target_hz: float) 
 def from_measurement(plan: Plan, element: ElementPlan, settings: ElectricalSettings,
                      measured_hz: float,
                      target_hz: float, *, tune_for: str | None = None,
-                     factory: ModelFactory = element_model,
+                     factory: ModelFactory = structure_model_of,
                      step_frac: float = 0.01) -> MeasuredResult:
     """The change in governing length (mm) for the next build, from where the
     first article's SWR was measured to be least."""

@@ -6,7 +6,6 @@ no engineering here. Heavy imports stay inside the command functions.
 
 from __future__ import annotations
 
-import sys
 from pathlib import Path
 from typing import Any
 
@@ -15,9 +14,6 @@ import click
 from .base import design_argument, guarded, load_design_file
 
 __all__ = ["COMMANDS", "sweep", "tune"]
-
-PROGRESS_MIN_POINTS = 41  # show a progress bar (on a terminal) from this many solves
-
 
 def _settings(design: Any) -> Any:
     from ..errors import DesignError
@@ -57,12 +53,12 @@ def _frequency(text: str | None, option: str, default: float | None) -> float | 
 @guarded
 def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None,
           element_name: str | None, csv_path: Path | None, force: bool) -> None:
-    """Sweep each fed element's impedance and SWR through the matching."""
-    import contextlib
+    """Sweep each fed element's impedance and SWR through the matching, with the
+    antenna's gain and front-to-back at each frequency."""
     import dataclasses
 
     from ..design.electrical import check_sweep
-    from ..em.stage import check_element, plan_electrical
+    from ..em.stage import electrical
     from ..plan import electrical_input
     from ..render.csv import sweep_csv
     from ..render.files import check_writable, write_text
@@ -86,31 +82,23 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     settings = dataclasses.replace(settings, sweep_from_hz=lo, sweep_to_hz=hi, sweep_step_hz=step)
     plan = _core_plan(d)
     if element_name is not None:
-        elements = [fed_element(plan, element_name)]
+        chosen = [fed_element(plan, element_name)]
     else:
-        elements = [e for e in plan.elements if e.feed_gap_mm is not None]
-        if not elements:
+        chosen = [e for e in plan.elements if e.feed_gap_mm is not None]
+        if not chosen:
             fed_element(plan, None)  # raises: nothing to sweep
-    n = len(settings.frequencies()) * len(elements)
+    inputs = [electrical_input(d, e.spec, e.geometry, e.pieces) for e in plan.elements]
+    checked, pe, found = electrical(inputs, settings)
     out: list[str] = []
     sweeps = []
-    found = []
-    show = n >= PROGRESS_MIN_POINTS
-    bar = (click.progressbar(length=n, label="sweeping", file=sys.stderr) if show
-           else contextlib.nullcontext())
-    with bar as progress:
-        for e in elements:
-            model_input = electrical_input(d, e.spec, e.pieces)
-            if model_input is None:
-                continue
-            ee, findings = check_element(model_input, settings,
-                                         progress=progress.update if progress else None)
-            found += findings
-            title = f"{e.name} ({e.spec.shape})"
-            out += [title, "-" * len(title)] + electrical_summary_lines(ee) + [""]
-            out += sweep_lines(ee, None) + [f"  note: {x}" for x in ee.notes] + [""]
-            sweeps.append((e.name, ee.sweep))
-    pe = plan_electrical(settings)
+    for e, ee in zip(plan.elements, checked):
+        if ee is None or e not in chosen:
+            continue
+        title = f"{e.name} ({e.spec.shape})"
+        band = pe.structures[ee.structure].band if ee.structure < len(pe.structures) else None
+        out += [title, "-" * len(title)] + electrical_summary_lines(ee) + [""]
+        out += sweep_lines(ee, None, band) + [f"  note: {x}" for x in ee.notes] + [""]
+        sweeps.append((e.name, ee.sweep))
     out += [plan_electrical_text(pe, d.shop.units, d.shop.fraction), "", "Findings",
             "--------"]
     out += findings_lines(found) or ["No findings: every check passed."]

@@ -24,7 +24,7 @@ if TYPE_CHECKING:  # pragma: no cover
     from .jig import JigSettings
     from .purchase import PurchaseSettings
 
-__all__ = ["Design", "ElementSpec", "StockSpec", "Shop"]
+__all__ = ["Design", "ElementSpec", "StockSpec", "Shop", "CapacitorSpec"]
 
 
 @dataclass(frozen=True)
@@ -51,12 +51,26 @@ class Shop:
 
 
 @dataclass(frozen=True)
+class CapacitorSpec:
+    """A capacitor across an element's gap instead of a feed: a fixed value (F), or
+    None to have the electrical check solve the value that resonates the antenna at
+    the target; its loss as a Q or an ESR (ohm); its voltage rating (V, peak)."""
+
+    capacitance_f: float | None = None
+    q: float | None = None
+    esr_ohm: float | None = None
+    rating_v: float | None = None
+
+
+@dataclass(frozen=True)
 class ElementSpec:
     """One element to build: a shape with its dimensions, and how many.
 
     `params` is the shape's own frozen dataclass (see fabplan.geometry.shapes).
     `stock` overrides the design's stock for this element (None: the design's);
-    `placement` puts the element's frame into the assembly's frame.
+    `placement` puts the element's frame into the assembly's frame: the elements
+    that have one are modelled together, as one antenna (None: the element stands
+    alone). `capacitor`: the element's gap holds a capacitor, not the feed.
     """
 
     name: str
@@ -65,7 +79,8 @@ class ElementSpec:
     quantity: int = 1
     trim_mm: float | None = None  # per end; None: the shop's
     stock: StockSpec | None = None
-    placement: Placement = Placement()
+    placement: Placement | None = None
+    capacitor: CapacitorSpec | None = None
 
 
 @dataclass(frozen=True)

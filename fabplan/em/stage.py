@@ -1,151 +1,244 @@
-"""The electrical stage: each fed element, as it will be bent, swept through the matching.
+"""The electrical stage: the antenna as it will be bent and assembled, swept.
 
-For every element that has a feed gap: a method-of-moments model of the
-element as bent (the released, after-springback bend radii where the forming
-stage has them; the stock's equivalent radius, tube wall and resistivity, its
-RF resistivity for clad wire), swept over the design's band; the frequency of
-least SWR, the resonance and the bandwidths; and the design-wide figures (the
-balun loop's cut length, the feed line's loss, the cautions).
+Every element with a placement is modelled together as one structure (the
+assembled antenna); every other element alone. A structure with a feed is
+modelled by the method of moments (fabplan.em.solver) as bent (the released,
+after-springback bend radii), swept over the design's band by a rational fit
+through a handful of full solves (fabplan.em.fitting), and read through the
+matching chain: least SWR, resonance, bandwidths. At the design frequency (the
+target, or the sweep's centre) the far field gives the gain, directivity,
+front-to-back and -rear ratios, beamwidths, polarisation and the pattern's
+principal cuts; the near field gives every load's current and voltage at the
+design's power, and a tuned capacitor's value.
 
-Pure: no files, no printing. Hz, ohm, mm.
+Pure: no files, no printing. Hz, ohm, mm, W.
 """
 
 from __future__ import annotations
 
-import dataclasses
 import math
-from collections.abc import Callable, Sequence
-from dataclasses import dataclass
+from collections.abc import Callable, Mapping, Sequence
 from typing import Any
 
 import numpy as np
 
 from ..design.electrical import ElectricalSettings
-from ..design.model import ElementSpec, StockSpec
 from ..errors import FabplanError, Finding
 from ..feed import CoaxBalun
-from ..forming.records import ElementForming
-from ..geometry.path import Bend, BendPath
-from ..geometry.shapes import SHAPES
-from ..lengths.records import PieceCore
-from .records import UNCERTAINTY_FRAC, ElementElectrical, PlanElectrical, SweepResult
-from .sweep import Model, Progress, analyse
+from .build import ElectricalInput, build_structure, conductor, gap_points, groups, released_paths
+from .records import (
+    UNCERTAINTY_FRAC,
+    BandFigures,
+    ElementElectrical,
+    FarFieldFigures,
+    LoadFigures,
+    PatternCut,
+    PlanElectrical,
+    StructureElectrical,
+    SweepResult,
+    WirePicture,
+)
+from .sweep import Progress, analyse
 
-__all__ = ["ElectricalInput", "Conductor", "ModelFactory", "electrical", "check_element",
-           "element_model", "element_path", "conductor", "plan_electrical"]
+__all__ = ["ModelFactory", "electrical", "check_structure", "structure_model_of",
+           "plan_electrical", "DEFAULT_POWER_W", "CUT_STEP_DEG"]
 
 # a minimum of SWR is "broad" when it rises by less than BROAD_SWR within +-BROAD_FRAC
 BROAD_FRAC = 0.01
 BROAD_SWR = 0.02
+DEFAULT_POWER_W = 100.0  # the near-field figures' power when the design gives none
+CUT_STEP_DEG = 2.0  # the pattern cuts' step
+FIT_RTOL = 1e-7  # the rational fit reproduces fresh solves to this (relative)
+POWER_BALANCE_TOL = 1e-2  # a larger gap between input and loss + radiated is a finding
+
+# (the group's elements, settings, top frequency, other params by element name) -> model
+ModelFactory = Callable[[Sequence[ElectricalInput], ElectricalSettings, float,
+                         Mapping[str, Any]], Any]
 
 
-@dataclass(frozen=True)
-class ElectricalInput:
-    """What the electrical stage models of one element: its spec (shape and
-    dimensions, to rebuild it when tuning), its stock, and its piece of stock
-    with the forming figures (for the released bend radii)."""
+def structure_model_of(elements: Sequence[ElectricalInput], settings: ElectricalSettings,
+                       f_max_hz: float, overrides: Mapping[str, Any]) -> Any:
+    """The method-of-moments model (`WireModel`) of the elements modelled together."""
+    from .solver import structure_model
 
-    spec: ElementSpec
-    stock: StockSpec
-    piece: PieceCore
-    forming: ElementForming | None
-
-    @property
-    def name(self) -> str:
-        return self.spec.name
-
-    @property
-    def gap_mm(self) -> float | None:
-        return self.piece.gap_mm
+    structure, _ = build_structure(elements, settings, overrides)
+    return structure_model(structure, f_max_hz=f_max_hz)
 
 
-@dataclass(frozen=True)
-class Conductor:
-    """The conductor the model uses: radius and tube wall (mm), resistivity (ohm m,
-    None for a perfect conductor)."""
+class _Fitted:
+    """The sweep as a rational fit: impedance, efficiency and the gains forward and
+    back at any frequency in the band, from the fit (the `Model` a sweep reads)."""
 
-    radius_mm: float
-    tube_wall_mm: float | None
-    resistivity_ohm_m: float | None
+    def __init__(self, fit: Any, unknowns: int) -> None:
+        self.fit = fit
+        self.unknowns = unknowns
 
+    def sweep(self, f_hz: np.ndarray) -> np.ndarray:
+        return np.asarray(self.fit.values(np.asarray(f_hz, dtype=float), 0), dtype=complex)
 
-ModelFactory = Callable[[ElectricalInput, ElectricalSettings, float, Any], Model]
+    def impedance(self, f_hz: float) -> complex:
+        return complex(self.sweep(np.array([f_hz]))[0])
 
+    def solve(self, f_hz: float) -> Any:
+        eff = float(self.fit.values(np.array([f_hz]), 1)[0].real)
 
-# -- the model of one element ------------------------------------------------
-def conductor(stock: StockSpec, settings: ElectricalSettings) -> Conductor:
-    """Radius, tube wall and resistivity of the stock as the model sees them."""
-    profile = stock.profile
-    material = stock.material
-    rho: float | None
-    if settings.perfect_conductor:
-        rho = None
-    elif settings.resistivity_ohm_m is not None:
-        rho = settings.resistivity_ohm_m
-    else:
-        rho = material.rf_resistivity_ohm_m or material.resistivity_ohm_m
-    wall = profile.wall_mm if profile.kind == "tube" else None
-    return Conductor(profile.equivalent_radius_mm, wall, rho)
+        class _Efficiency:
+            efficiency = eff
+
+        return _Efficiency()
 
 
-def element_path(element: ElectricalInput, params: Any = None) -> tuple[BendPath, bool]:
-    """The element's bend path as it will be after release.
-
-    `params` (the shape's params, e.g. with a new governing length) rebuilds
-    the path; None uses the element's own. Where the forming stage has set the
-    released radii, each bend takes its final radius (for rebuilt params, its
-    own radius scaled by the element's final/design ratio for that bend, so a
-    loop whose radius is the tuned length keeps its springback figure).
-    Returns (path, released).
-    """
-    if params is None:
-        path = element.piece.path
-    else:
-        path = SHAPES[element.spec.shape].build(params, element.stock.profile.outer_diameter_mm)
-    forming = element.forming
-    design_radii = [b.radius_mm for b in element.piece.path.bends]
-    if forming is None or len(path.bends) != len(design_radii):
-        return path, False
-    # a bend that springs straight (infinite final radius) is already an error
-    # finding; the model keeps its design radius rather than an unbendable one
-    ratios = {b.index: b.final_radius_mm / design_radii[b.index - 1] for b in forming.bends
-              if 1 <= b.index <= len(design_radii) and math.isfinite(b.final_radius_mm)}
-    pieces = []
-    index = 0
-    for piece in path.pieces:
-        if isinstance(piece, Bend):
-            index += 1
-            radius = piece.radius_mm * ratios.get(index, 1.0)
-            piece = dataclasses.replace(piece, radius_mm=radius)
-        pieces.append(piece)
-    return dataclasses.replace(path, pieces=tuple(pieces), _cache={}), True
+def _group_names(elements: Sequence[ElectricalInput]) -> str:
+    return ", ".join(e.name for e in elements)
 
 
-def element_model(element: ElectricalInput, settings: ElectricalSettings, f_max_hz: float,
-                  params: Any = None) -> Model:
-    """The method-of-moments model (`WireModel`) of one element as bent."""
-    from .solver import path_model
+def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSettings, *,
+                    progress: Progress | None = None,
+                    factory: ModelFactory = structure_model_of
+                    ) -> tuple[StructureElectrical, SweepResult, bool, list[Finding]]:
+    """Model the elements together; sweep the feed through the matching; the far
+    field and the near field at the design frequency. Returns the structure's
+    figures, the feed's sweep, whether least SWR lies at an end of the sweep, and
+    the findings (each naming the element it is about)."""
+    from .farfield import far_field
+    from .fitting import fit_sweep
 
-    path, _ = element_path(element, params)
-    c = conductor(element.stock, settings)
-    return path_model(path, c.radius_mm, f_max_hz=f_max_hz,
-                      resistivity_ohm_m=c.resistivity_ohm_m, tube_wall_mm=c.tube_wall_mm,
-                      ground_z_mm=settings.ground_z_mm())
-
-
-# -- the stage -----------------------------------------------------------------
-def check_element(element: ElectricalInput, settings: ElectricalSettings, *,
-                  progress: Progress | None = None,
-                  factory: ModelFactory = element_model) -> tuple[ElementElectrical,
-                                                                  list[Finding]]:
-    """Sweep one element through the matching; its findings beside it."""
     freqs = settings.frequencies()
-    model = factory(element, settings, float(freqs[-1]), None)
-    chain = settings.chain
-    result, at_edge = analyse(model, chain, freqs, progress=progress,
-                              near_hz=settings.target_hz)
-    _, released = element_path(element)
-    c = conductor(element.stock, settings)
+    f_lo, f_hi = float(freqs[0]), float(freqs[-1])
+    f0 = settings.target_hz if settings.target_hz is not None else 0.5 * (f_lo + f_hi)
+    f0 = min(max(f0, f_lo), f_hi) if f_lo <= f0 <= f_hi else f0
+    model = factory(elements, settings, max(f_hi, f0), {})
+    fed = [e.name for e in elements if e.fed]
+    first = fed[0] if fed else elements[0].name
+    findings = [_name(f, first) for f in getattr(model, "findings", ())]
+    # the design frequency: far field, forward and back directions, near field
+    sol0 = model.solve(f0)
+    ff = far_field(sol0, model)
+    beam = ff.beam()
+    fwd = (math.radians(beam.forward_theta_deg), math.radians(beam.forward_phi_deg))
+    back = (None if beam.back_theta_deg is None or beam.back_phi_deg is None else
+            (math.radians(beam.back_theta_deg), math.radians(beam.back_phi_deg)))
+    solves = [0]
+
+    def solve(f_hz: float) -> np.ndarray:
+        sol = model.solve(f_hz)
+        solves[0] += 1
+        if progress is not None:
+            progress(1)
+        field = far_field(sol, model)
+        g_f = float(field.gain(np.array(fwd[0]), np.array(fwd[1])))
+        g_b = (float(field.gain(np.array(back[0]), np.array(back[1]))) if back is not None
+               else 0.0)
+        return np.array([sol.z_in, sol.efficiency, g_f, g_b], dtype=complex)
+
+    fit = fit_sweep(solve, f_lo, f_hi, rtol=FIT_RTOL)  # the sweep has 3 points at least
+    fitted = _Fitted(fit, int(model.unknowns))
+    result, at_edge = analyse(fitted, settings.chain, freqs, near_hz=settings.target_hz)
+    g_f, g_b = fit.values(freqs, 2).real, fit.values(freqs, 3).real
+    band = BandFigures(tuple(float(f) for f in freqs), tuple(_db(x) for x in g_f),
+                       tuple(None if back is None or not (a > 0 and b > 0) else
+                             10 * math.log10(a / b) for a, b in zip(g_f, g_b)))
+    far = _far_field_figures(ff, beam, f0, findings, first)
+    power, stated = ((settings.power_w, True) if settings.power_w is not None
+                     else (DEFAULT_POWER_W, False))
+    loads = _loads(sol0, model, power, elements)
+    findings += _load_findings(loads, power)
+    structure, owners = build_structure(elements, settings)
+    feeds, load_pts = gap_points(structure)
+    figures = StructureElectrical(
+        tuple(e.name for e in elements), tuple(fed), int(model.unknowns), f0, power, stated,
+        far, band, loads, sol0.at_power(power).i_max_rms_a if sol0.p_in_w > 0 else 0.0,
+        far.efficiency if far is not None else float(sol0.efficiency),
+        _pictures(structure, owners), tuple(feeds), tuple(load_pts),
+        settings.ground_z_mm(), solves[0] + 1)
+    return figures, result, at_edge, findings
+
+
+def _name(f: Finding, element: str) -> Finding:
+    return f if f.element else Finding(f.code, f.severity, f.message, element)
+
+
+def _db(x: float) -> float | None:
+    return 10 * math.log10(x) if x > 0 and math.isfinite(x) else None
+
+
+def _cut(c: Any) -> PatternCut:
+    return PatternCut(c.plane, float(c.fixed_deg), tuple(float(a) for a in c.angle_deg),
+                      tuple(float(v) if math.isfinite(v) else None for v in c.value_db))
+
+
+def _far_field_figures(ff: Any, beam: Any, f0: float, findings: list[Finding],
+                       element: str) -> FarFieldFigures | None:
+    balance = ff.power_balance()
+    if abs(balance.error) > POWER_BALANCE_TOL:
+        findings.append(Finding(
+            "em-power-balance", "warning",
+            f"the power into the model and the power radiated plus lost differ by "
+            f"{100 * balance.error:.1f} %: the mesh is too coarse for this structure; the gain "
+            "and efficiency are uncertain", element))
+    cuts = ff.cuts(step_deg=CUT_STEP_DEG)
+    pol = ff.polarisation(beam.forward_theta_deg, beam.forward_phi_deg)
+    directivity = float(ff.directivity_dbi(np.array(math.radians(beam.forward_theta_deg)),
+                                           np.array(math.radians(beam.forward_phi_deg))))
+    axial = pol.axial_ratio_db if math.isfinite(pol.axial_ratio_db) else None
+    sense = pol.sense if pol.sense in ("right", "left", "linear") else "linear"
+    if sense in ("right", "left") and axial is not None and axial > 6.0:
+        sense = f"elliptical, {sense}-hand"
+    return FarFieldFigures(f0, float(beam.forward_dbi), directivity, float(balance.efficiency),
+                           float(beam.forward_theta_deg), float(beam.forward_phi_deg),
+                           beam.front_to_back_db, beam.front_to_rear_db, beam.beamwidth_h_deg,
+                           beam.beamwidth_v_deg, axial, sense, float(balance.error),
+                           _cut(cuts.azimuth), _cut(cuts.elevation))
+
+
+def _loads(sol: Any, model: Any, power_w: float,
+           elements: Sequence[ElectricalInput]) -> tuple[LoadFigures, ...]:
+    if not len(sol.load_names) or not sol.p_in_w > 0:
+        return ()
+    at = sol.at_power(power_w)
+    by_name = {f"{e.name} capacitor": e for e in elements}
+    out = []
+    for name, z in zip(sol.load_names, sol.load_impedances):
+        g = at.gap(name)
+        e = by_name.get(name)
+        cap = e.spec.capacitor if e is not None else None
+        solved = cap is not None and cap.capacitance_f is None
+        c_f = (sol.capacitance_f if solved else (cap.capacitance_f if cap is not None else None))
+        v_rms = g.voltage_rms_v
+        out.append(LoadFigures(name, e.name if e is not None else "", c_f, solved, complex(z),
+                               g.current_rms_a, v_rms, v_rms * math.sqrt(2),
+                               float((g.current_rms_a ** 2) * complex(z).real),
+                               cap.rating_v if cap is not None else None))
+    return tuple(out)
+
+
+def _load_findings(loads: Sequence[LoadFigures], power_w: float) -> list[Finding]:
+    out = []
+    for ld in loads:
+        if ld.rating_v is not None and ld.voltage_v_peak > ld.rating_v:
+            out.append(Finding(
+                "em-capacitor-overvoltage", "error",
+                f"at {power_w:g} W the capacitor sees {ld.voltage_v_peak:.0f} V peak "
+                f"({ld.voltage_v_rms:.0f} V RMS), more than its {ld.rating_v:.0f} V rating: use "
+                "a capacitor rated higher (vacuum variable, or wider plate spacing) or less "
+                "power", ld.element))
+    return out
+
+
+def _pictures(structure: Any, owners: Sequence[str]) -> tuple[WirePicture, ...]:
+    out = []
+    for w, owner in zip(structure.wires, owners):
+        pts, _ = w.path.sample(max(w.path.centreline_length() / 200, 0.5))
+        world = w.placement.apply(pts)
+        out.append(WirePicture(owner, tuple((float(p[0]), float(p[1]), float(p[2]))
+                                            for p in world)))
+    return tuple(out)
+
+
+def _element_result(e: ElectricalInput, settings: ElectricalSettings, result: SweepResult,
+                    at_edge: bool, unknowns: int, index: int) -> ElementElectrical:
+    _, _, released = released_paths(e)
+    c = conductor(e.stock, settings)
     rho = c.resistivity_ohm_m
     geometry = ("as bent, with the released (after-springback) bend radii" if released else
                 "as designed (no forming figures: the design's bend radii)")
@@ -153,14 +246,11 @@ def check_element(element: ElectricalInput, settings: ElectricalSettings, *,
                  + (f", tube wall {c.tube_wall_mm:.3f} mm" if c.tube_wall_mm else "")
                  + ("; perfect conductor" if rho is None else f"; resistivity {rho:.3g} ohm m")
                  + f"; {settings.ground_text()}")
-    findings = [dataclasses.replace(f, element=element.name)
-                for f in getattr(model, "findings", ())]
-    findings += _findings(element.name, settings, result, at_edge)
     notes = ("measured SWR depends on the surroundings (mast, boom, nearby metal, height) and "
-             "on the feed line and its routing; the prediction is for the element alone",)
-    return ElementElectrical(settings.target_hz, result, int(model.unknowns), notes,
-                             at_edge, geometry, released, c.radius_mm, c.tube_wall_mm, rho,
-                             settings.ground, settings.ground_height_mm), findings
+             "on the feed line and its routing; the prediction is for the antenna as modelled",)
+    return ElementElectrical(settings.target_hz, result, unknowns, notes, at_edge, geometry,
+                             released, c.radius_mm, c.tube_wall_mm, rho, settings.ground,
+                             settings.ground_height_mm, index)
 
 
 def _findings(name: str, settings: ElectricalSettings, r: SweepResult,
@@ -230,32 +320,52 @@ def plan_electrical(settings: ElectricalSettings) -> PlanElectrical:
 
 
 def electrical(elements: Sequence[ElectricalInput | None], settings: ElectricalSettings, *,
-               progress: Progress | None = None, factory: ModelFactory = element_model
+               progress: Progress | None = None, factory: ModelFactory = structure_model_of
                ) -> tuple[tuple[ElementElectrical | None, ...], PlanElectrical,
                           tuple[Finding, ...]]:
-    """The electrical check of every element (None for one not modelled: a
-    `None` input, or an element without a feed gap), the design-wide figures
-    and the findings."""
-    out: list[ElementElectrical | None] = []
+    """The electrical check of every structure (the placed elements together, each
+    other element alone): each fed element's sweep (None for an element not fed or
+    not modelled), the design-wide figures with every structure's, and the findings."""
+    import dataclasses
+
+    out: list[ElementElectrical | None] = [None] * len(elements)
     findings: list[Finding] = []
-    for e in elements:
-        if e is None:
-            out.append(None)
-            continue
-        if e.gap_mm is None:
-            findings.append(Finding("em-not-fed", "info",
-                                    "no feed gap: the electrical check covers fed elements only "
-                                    "(a parasitic element's effect on the fed one is not "
-                                    "modelled)", e.name))
-            out.append(None)
+    structures: list[StructureElectrical] = []
+    for group in groups(elements):
+        members = [e for e in (elements[i] for i in group) if e is not None]
+        if not any(e.fed for e in members):
+            for e in members:
+                if e.spec.capacitor is not None:
+                    findings.append(Finding(
+                        "em-not-fed", "warning",
+                        "its capacitor's loop has no feed modelled with it: place the coupling "
+                        "loop (or the feed) with the loop so the pair is modelled together",
+                        e.name))
+                else:
+                    findings.append(Finding(
+                        "em-not-fed", "info",
+                        "no feed gap: the electrical check models fed elements and the elements "
+                        "placed with them; give this element a placement with the fed one to "
+                        "include it", e.name))
             continue
         try:
-            ee, found = check_element(e, settings, progress=progress, factory=factory)
+            figures, result, at_edge, found = check_structure(members, settings,
+                                                              progress=progress,
+                                                              factory=factory)
         except FabplanError as exc:
-            findings.append(Finding("em-model-limits", "warning",
-                                    f"no electrical check: {exc}", e.name))
-            out.append(None)
+            for e in members:
+                if e.fed:
+                    findings.append(Finding("em-model-limits", "warning",
+                                            f"no electrical check: {exc}", e.name))
             continue
-        findings.extend(found)
-        out.append(ee)
-    return tuple(out), plan_electrical(settings), tuple(findings)
+        findings += found
+        index = len(structures)
+        structures.append(figures)
+        for i in group:
+            member = elements[i]
+            if member is not None and member.fed:
+                out[i] = _element_result(member, settings, result, at_edge, figures.unknowns,
+                                         index)
+                findings += _findings(member.name, settings, result, at_edge)
+    plan = dataclasses.replace(plan_electrical(settings), structures=tuple(structures))
+    return tuple(out), plan, tuple(findings)

@@ -10,7 +10,13 @@ import json
 import math
 from typing import Any
 
-from ..em.records import ElementElectrical, PlanElectrical, SweepResult
+from ..em.records import (
+    ElementElectrical,
+    PatternCut,
+    PlanElectrical,
+    StructureElectrical,
+    SweepResult,
+)
 from ..estimate.records import ElementEstimate, Order
 from ..forming.records import ElementForming
 from ..lengths.records import PieceCore
@@ -176,12 +182,62 @@ def _electrical(el: ElementElectrical, d: dict[str, Any]) -> None:
         "resistivity_ohm_m": num(el.resistivity_ohm_m, sig=6),
         "ground": el.ground,
         "ground_height_mm": num(el.ground_height_mm, 6),
+        "structure": el.structure,
         "notes": list(el.notes),
     })
     d["electrical"] = out
 
 
+def _cut(c: PatternCut) -> dict[str, Any]:
+    return {"plane": c.plane, "fixed_deg": num(c.fixed_deg, 3),
+            "angle_deg": [num(a, 3) for a in c.angle_deg],
+            "gain_dbi": [num(g, 3) for g in c.gain_dbi]}
+
+
+def structure_dict(st: StructureElectrical) -> dict[str, Any]:
+    """One structure's figures (the elements modelled together)."""
+    ff = st.far_field
+    out: dict[str, Any] = {
+        "elements": list(st.elements),
+        "fed": list(st.fed),
+        "unknowns": st.unknowns,
+        "solves": st.solves,
+        "f_hz": num(st.f_hz, 1),
+        "gain_dbi": None if ff is None else num(ff.gain_dbi, 3),
+        "directivity_dbi": None if ff is None else num(ff.directivity_dbi, 3),
+        "efficiency": num(st.efficiency, 5),
+        "front_to_back_db": None if ff is None else num(ff.front_to_back_db, 3),
+        "front_to_rear_db": None if ff is None else num(ff.front_to_rear_db, 3),
+        "beamwidth_h_deg": None if ff is None else num(ff.beamwidth_h_deg, 2),
+        "beamwidth_v_deg": None if ff is None else num(ff.beamwidth_v_deg, 2),
+        "max_theta_deg": None if ff is None else num(ff.max_theta_deg, 3),
+        "max_phi_deg": None if ff is None else num(ff.max_phi_deg, 3),
+        "axial_ratio_db": None if ff is None else num(ff.axial_ratio_db, 3),
+        "polarisation": None if ff is None else ff.polarisation,
+        "power_balance_error": None if ff is None else num(ff.power_balance_error, sig=3),
+        "pattern": None if ff is None else {"azimuth": _cut(ff.azimuth),
+                                            "elevation": _cut(ff.elevation)},
+        "band": None if st.band is None else {
+            "f_hz": [num(f, 1) for f in st.band.freq_hz],
+            "gain_dbi": [num(g, 3) for g in st.band.gain_dbi],
+            "front_to_back_db": [num(g, 3) for g in st.band.front_to_back_db]},
+        "power_w": num(st.power_w, 6),
+        "power_stated": st.power_stated,
+        "max_current_a_rms": num(st.max_current_a_rms, 5),
+        "loads": [{"name": ld.name, "element": ld.element,
+                   "capacitance_f": num(ld.capacitance_f, sig=6), "solved": ld.solved,
+                   "current_a": num(ld.current_a_rms, 5), "voltage_v": num(ld.voltage_v_rms, 3),
+                   "voltage_v_peak": num(ld.voltage_v_peak, 3), "power_w": num(ld.power_w, 5),
+                   "rating_v": num(ld.rating_v, 3)} for ld in st.loads],
+    }
+    return out
+
+
 def _plan_electrical(pe: PlanElectrical) -> dict[str, Any]:
+    figures: dict[str, Any] = {}
+    if len(pe.structures) == 1:  # the antenna's own figures, at the top for scripts
+        figures = {k: v for k, v in structure_dict(pe.structures[0]).items()
+                   if k not in ("elements", "fed")}
     return {
         "matching": pe.matching,
         "ground": pe.ground,
@@ -192,6 +248,8 @@ def _plan_electrical(pe: PlanElectrical) -> dict[str, Any]:
         "power_w": num(pe.power_w, 6),
         "uncertainty_frac": pe.uncertainty_frac,
         "cautions": list(pe.cautions),
+        **figures,
+        "structures": [structure_dict(st) for st in pe.structures],
     }
 
 

@@ -10,7 +10,7 @@ import math
 from collections.abc import Callable, Sequence
 from typing import Any
 
-from ..em.records import ElementElectrical, PlanElectrical
+from ..em.records import BandFigures, ElementElectrical, PlanElectrical, StructureElectrical
 from ..errors import Finding
 from ..estimate.records import Cut, ElementEstimate, Order, StockPiece
 from ..forming.records import ElementForming
@@ -27,7 +27,8 @@ from ..units import (
 
 __all__ = ["table", "findings_text", "findings_lines", "plan_to_text", "forming_text",
            "estimate_text", "order_text", "electrical_summary_lines", "sweep_lines",
-           "electrical_text", "plan_electrical_text", "swr_text", "band_text"]
+           "electrical_text", "plan_electrical_text", "swr_text", "band_text",
+           "structure_lines"]
 
 
 def table(headers: Sequence[str], rows: Sequence[Sequence[str]], align: str | None = None) -> str:
@@ -129,7 +130,9 @@ def plan_to_text(plan: Plan) -> str:
             out.append(estimate_text(e.estimate, unit))
             out.append("")
         if e.electrical is not None:
-            out.append(electrical_text(e.electrical))
+            st = plan.electrical.structures if plan.electrical is not None else ()
+            band = st[e.electrical.structure].band if e.electrical.structure < len(st) else None
+            out.append(electrical_text(e.electrical, band))
             out.append("")
     if plan.order is not None:
         out.append(order_text(plan.order, unit, den))
@@ -330,10 +333,19 @@ def electrical_summary_lines(self: ElementElectrical) -> list[str]:
     lines += [f"  {name.ljust(width)}  {value}" for name, value in rows]
     return lines
 
-def sweep_lines(self: ElementElectrical, max_rows: int | None = 21) -> list[str]:
-    """The sweep as a table (every k-th point when there are more than `max_rows`)."""
+def _db_text(x: float | None) -> str:
+    return "-" if x is None else f"{x:.2f}"
+
+
+def sweep_lines(self: ElementElectrical, max_rows: int | None = 21,
+                band: BandFigures | None = None) -> list[str]:
+    """The sweep as a table (every k-th point when there are more than `max_rows`);
+    with the structure's `band` figures, its gain and front-to-back at each point."""
     s = self.sweep
-    lines = [f"  {'MHz':>10}  {'R ohm':>9}  {'X ohm':>9}  {'SWR term':>8}  {'SWR sys':>8}"]
+    head = f"  {'MHz':>10}  {'R ohm':>9}  {'X ohm':>9}  {'SWR term':>8}  {'SWR sys':>8}"
+    if band is not None:
+        head += f"  {'gain dBi':>8}  {'F/B dB':>7}"
+    lines = [head]
     n = len(s.freq_hz)
     stride = 1 if max_rows is None else max(1, math.ceil(n / max_rows))
     picks = list(range(0, n, stride))
@@ -341,8 +353,11 @@ def sweep_lines(self: ElementElectrical, max_rows: int | None = 21) -> list[str]
         picks.append(n - 1)
     for i in picks:
         z = s.z_ohm[i]
-        lines.append(f"  {s.freq_hz[i] / 1e6:10.3f}  {z.real:9.1f}  {z.imag:9.1f}  "
-                     f"{swr_text(s.swr_terminals[i]):>8}  {swr_text(s.swr_system[i]):>8}")
+        row = (f"  {s.freq_hz[i] / 1e6:10.3f}  {z.real:9.1f}  {z.imag:9.1f}  "
+               f"{swr_text(s.swr_terminals[i]):>8}  {swr_text(s.swr_system[i]):>8}")
+        if band is not None and i < len(band.gain_dbi):
+            row += f"  {_db_text(band.gain_dbi[i]):>8}  {_db_text(band.front_to_back_db[i]):>7}"
+        lines.append(row)
     if stride > 1:
         lines.append(f"  (every {stride}th of {n} points; `fabplan sweep` lists them all)")
     return lines
@@ -362,8 +377,48 @@ def band_text(band: Band) -> str:
     return f"at least {format_frequency(band.width_at_least_hz or 0.0)} ({lo} to {hi})"
 
 
-def electrical_text(el: ElementElectrical) -> str:
-    lines = electrical_summary_lines(el) + [""] + sweep_lines(el)
+def structure_lines(st: StructureElectrical) -> list[str]:
+    """The antenna as modelled: its far field at the design frequency, its loads and
+    currents at the design's power."""
+    names = ", ".join(st.elements)
+    lines = [f"The antenna as modelled ({names}): {st.unknowns} unknowns, "
+             f"{st.solves} full solves for the sweep"]
+    ff = st.far_field
+    if ff is not None:
+        rows = [("at", format_frequency(ff.f_hz)),
+                ("gain", f"{ff.gain_dbi:.2f} dBi (directivity {ff.directivity_dbi:.2f} dBi, "
+                         f"efficiency {100 * ff.efficiency:.1f} %)"),
+                ("strongest towards", f"theta {ff.max_theta_deg:.0f} deg, phi "
+                                      f"{ff.max_phi_deg:.0f} deg (theta from +z, phi from +x)")]
+        if ff.front_to_back_db is not None:
+            rows.append(("front-to-back", f"{ff.front_to_back_db:.1f} dB"))
+        if ff.front_to_rear_db is not None:
+            rows.append(("front-to-rear", f"{ff.front_to_rear_db:.1f} dB"))
+        widths = [f"{w:.0f} deg {plane}" for w, plane in ((ff.beamwidth_h_deg, "horizontal"),
+                                                           (ff.beamwidth_v_deg, "vertical"))
+                  if w is not None]
+        if widths:
+            rows.append(("half-power beamwidth", ", ".join(widths)))
+        pol = ff.polarisation
+        if ff.axial_ratio_db is not None:
+            pol += f", axial ratio {ff.axial_ratio_db:.1f} dB"
+        rows.append(("polarisation", pol))
+        width = max(len(r[0]) for r in rows)
+        lines += [f"  {name.ljust(width)}  {value}" for name, value in rows]
+    power = f"{st.power_w:g} W" + ("" if st.power_stated else " (no [electrical] power given)")
+    lines.append(f"  at {power}: largest conductor current {st.max_current_a_rms:.2f} A RMS")
+    for ld in st.loads:
+        value = ("" if ld.capacitance_f is None else
+                 f"{ld.capacitance_f * 1e12:.1f} pF{' (solved)' if ld.solved else ''}, ")
+        lines.append(f"  {ld.name}: {value}{ld.voltage_v_rms:.0f} V RMS "
+                     f"({ld.voltage_v_peak:.0f} V peak), {ld.current_a_rms:.2f} A RMS, "
+                     f"{ld.power_w:.2f} W lost in it"
+                     + (f"; rated {ld.rating_v:.0f} V" if ld.rating_v is not None else ""))
+    return lines
+
+
+def electrical_text(el: ElementElectrical, band: BandFigures | None = None) -> str:
+    lines = electrical_summary_lines(el) + [""] + sweep_lines(el, band=band)
     lines += [f"  note: {note}" for note in el.notes]
     return "\n".join(lines)
 
@@ -380,5 +435,8 @@ def plan_electrical_text(self: PlanElectrical, unit: LengthUnit, den: int) -> st
         lines.append(f"Feed line matched loss: {self.feed_line_loss_db:.2f} dB")
     lines.append(f"Predicted frequencies carry about +-{100 * self.uncertainty_frac:.1f} % "
                  "uncertainty, dominated by the terminal and feed geometry.")
+    for st in self.structures:
+        lines += [""] + structure_lines(st)
+    lines += [""] if self.structures else []
     lines += [f"CAUTION: {c}" for c in self.cautions]
     return "\n".join(lines)

@@ -223,7 +223,7 @@ def test_sweep_prints_the_figures_and_writes_every_point(run_cli, write_design, 
     import dataclasses
 
     from fabplan.design.read import load_design
-    from fabplan.em.stage import check_element
+    from fabplan.em.stage import electrical
     from fabplan.plan import electrical_input, make_plan
 
     p = write_design(text())
@@ -242,7 +242,7 @@ def test_sweep_prints_the_figures_and_writes_every_point(run_cli, write_design, 
                                    sweep_step_hz=2e6)
     plan = make_plan(dataclasses.replace(d, electrical=None))
     e = plan.elements[0]
-    ee, _ = check_element(electrical_input(d, e.spec, e.pieces), settings)
+    [ee], _, _ = electrical([electrical_input(d, e.spec, e.geometry, e.pieces)], settings)
     assert [float(r["r_ohm"]) for r in rows] == pytest.approx([z.real for z in ee.sweep.z_ohm],
                                                               rel=1e-6)
     assert [float(r["swr_system"]) for r in rows] == pytest.approx(list(ee.sweep.swr_system),

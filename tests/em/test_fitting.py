@@ -116,15 +116,15 @@ def test_budget_exhausted_is_reported_not_hidden():
 @pytest.fixture(scope="module")
 def example_element():
     from fabplan import load_design, make_plan
-    from fabplan.em.stage import element_model
+    from fabplan.em.stage import structure_model_of
     from fabplan.plan import electrical_input
     example = Path(__file__).resolve().parents[2] / "examples" / "club-uhf-folded-dipoles.toml"
     plan = make_plan(load_design(example))
     settings = plan.design.electrical
     freqs = settings.frequencies()
     e = plan.elements[0]
-    model = element_model(electrical_input(plan.design, e.spec, e.pieces), settings,
-                          float(freqs[-1]))
+    inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)]
+    model = structure_model_of(inputs, settings, float(freqs[-1]), {})
     return model, freqs, settings.chain
 
 
