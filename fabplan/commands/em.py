@@ -88,7 +88,7 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
         if not chosen:
             fed_element(plan, None)  # raises: nothing to sweep
     inputs = [electrical_input(d, e.spec, e.geometry, e.pieces) for e in plan.elements]
-    checked, pe, found = electrical(inputs, settings)
+    checked, pe, found = electrical(inputs, settings, strict=True)
     out: list[str] = []
     sweeps = []
     for e, ee in zip(plan.elements, checked):

@@ -117,6 +117,10 @@ class BandFigures:
     freq_hz: tuple[float, ...]
     gain_dbi: tuple[float | None, ...]
     front_to_back_db: tuple[float | None, ...]
+    # half-power beamwidths about the same forward direction (deg), interpolated between
+    # the frequencies that were solved (None where a half-power edge is not found)
+    beamwidth_h_deg: tuple[float | None, ...] = ()
+    beamwidth_v_deg: tuple[float | None, ...] = ()
 
 
 @dataclass(frozen=True)

@@ -119,6 +119,7 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
     back = (None if beam.back_theta_deg is None or beam.back_phi_deg is None else
             (math.radians(beam.back_theta_deg), math.radians(beam.back_phi_deg)))
     solves = [0]
+    widths: dict[float, tuple[float, float]] = {}
 
     def solve(f_hz: float) -> np.ndarray:
         sol = model.solve(f_hz)
@@ -126,6 +127,9 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
         if progress is not None:
             progress(1)
         field = far_field(sol, model)
+        b = field.beam((beam.forward_theta_deg, beam.forward_phi_deg))
+        widths[f_hz] = (math.nan if b.beamwidth_h_deg is None else b.beamwidth_h_deg,
+                        math.nan if b.beamwidth_v_deg is None else b.beamwidth_v_deg)
         g_f = float(field.gain(np.array(fwd[0]), np.array(fwd[1])))
         g_b = (float(field.gain(np.array(back[0]), np.array(back[1]))) if back is not None
                else 0.0)
@@ -137,7 +141,8 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
     g_f, g_b = fit.values(freqs, 2).real, fit.values(freqs, 3).real
     band = BandFigures(tuple(float(f) for f in freqs), tuple(_db(x) for x in g_f),
                        tuple(None if back is None or not (a > 0 and b > 0) else
-                             10 * math.log10(a / b) for a, b in zip(g_f, g_b)))
+                             10 * math.log10(a / b) for a, b in zip(g_f, g_b)),
+                       *_widths_at(widths, freqs))
     far = _far_field_figures(ff, beam, f0, findings, first)
     power, stated = ((settings.power_w, True) if settings.power_w is not None
                      else (DEFAULT_POWER_W, False))
@@ -152,6 +157,19 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
         _pictures(structure, owners), tuple(feeds), tuple(load_pts),
         settings.ground_z_mm(), solves[0] + 1)
     return figures, result, at_edge, findings
+
+
+def _widths_at(widths: Mapping[float, tuple[float, float]], freqs: np.ndarray
+               ) -> tuple[tuple[float | None, ...], tuple[float | None, ...]]:
+    """The beamwidths at each frequency, interpolated linearly between the solved ones
+    (None where a neighbouring solve found no half-power edge)."""
+    fs = np.array(sorted(widths))
+    out: list[tuple[float | None, ...]] = []
+    for k in range(2):
+        w = np.array([widths[f][k] for f in fs])
+        vals = np.interp(freqs, fs, w)
+        out.append(tuple(float(v) if math.isfinite(v) else None for v in vals))
+    return out[0], out[1]
 
 
 def _name(f: Finding, element: str) -> Finding:
@@ -320,12 +338,17 @@ def plan_electrical(settings: ElectricalSettings) -> PlanElectrical:
 
 
 def electrical(elements: Sequence[ElectricalInput | None], settings: ElectricalSettings, *,
-               progress: Progress | None = None, factory: ModelFactory = structure_model_of
+               progress: Progress | None = None, factory: ModelFactory = structure_model_of,
+               strict: bool = False
                ) -> tuple[tuple[ElementElectrical | None, ...], PlanElectrical,
                           tuple[Finding, ...]]:
     """The electrical check of every structure (the placed elements together, each
     other element alone): each fed element's sweep (None for an element not fed or
-    not modelled), the design-wide figures with every structure's, and the findings."""
+    not modelled), the design-wide figures with every structure's, and the findings.
+
+    A structure the model cannot take (too thick, too many unknowns, over the memory
+    bound) becomes a finding, or, with `strict` (a command that asked for the
+    electrical check), the error itself."""
     import dataclasses
 
     out: list[ElementElectrical | None] = [None] * len(elements)
@@ -353,6 +376,8 @@ def electrical(elements: Sequence[ElectricalInput | None], settings: ElectricalS
                                                               progress=progress,
                                                               factory=factory)
         except FabplanError as exc:
+            if strict:
+                raise
             for e in members:
                 if e.fed:
                     findings.append(Finding("em-model-limits", "warning",

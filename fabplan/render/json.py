@@ -220,7 +220,9 @@ def structure_dict(st: StructureElectrical) -> dict[str, Any]:
         "band": None if st.band is None else {
             "f_hz": [num(f, 1) for f in st.band.freq_hz],
             "gain_dbi": [num(g, 3) for g in st.band.gain_dbi],
-            "front_to_back_db": [num(g, 3) for g in st.band.front_to_back_db]},
+            "front_to_back_db": [num(g, 3) for g in st.band.front_to_back_db],
+            "beamwidth_h_deg": [num(g, 2) for g in st.band.beamwidth_h_deg],
+            "beamwidth_v_deg": [num(g, 2) for g in st.band.beamwidth_v_deg]},
         "power_w": num(st.power_w, 6),
         "power_stated": st.power_stated,
         "max_current_a_rms": num(st.max_current_a_rms, 5),

@@ -344,7 +344,7 @@ def sweep_lines(self: ElementElectrical, max_rows: int | None = 21,
     s = self.sweep
     head = f"  {'MHz':>10}  {'R ohm':>9}  {'X ohm':>9}  {'SWR term':>8}  {'SWR sys':>8}"
     if band is not None:
-        head += f"  {'gain dBi':>8}  {'F/B dB':>7}"
+        head += f"  {'gain dBi':>8}  {'F/B dB':>7}  {'BW h deg':>8}"
     lines = [head]
     n = len(s.freq_hz)
     stride = 1 if max_rows is None else max(1, math.ceil(n / max_rows))
@@ -356,7 +356,9 @@ def sweep_lines(self: ElementElectrical, max_rows: int | None = 21,
         row = (f"  {s.freq_hz[i] / 1e6:10.3f}  {z.real:9.1f}  {z.imag:9.1f}  "
                f"{swr_text(s.swr_terminals[i]):>8}  {swr_text(s.swr_system[i]):>8}")
         if band is not None and i < len(band.gain_dbi):
-            row += f"  {_db_text(band.gain_dbi[i]):>8}  {_db_text(band.front_to_back_db[i]):>7}"
+            bw = band.beamwidth_h_deg[i] if i < len(band.beamwidth_h_deg) else None
+            row += (f"  {_db_text(band.gain_dbi[i]):>8}  {_db_text(band.front_to_back_db[i]):>7}"
+                    f"  {'-' if bw is None else f'{bw:.0f}':>8}")
         lines.append(row)
     if stride > 1:
         lines.append(f"  (every {stride}th of {n} points; `fabplan sweep` lists them all)")
