@@ -137,11 +137,11 @@ def nice_step(span: float, ticks: int = 6) -> float:
     if not span > 0:
         return 1.0
     raw = span / ticks
-    mag = 10 ** math.floor(math.log10(raw))
-    for k in (1, 2, 5, 10):
+    mag = 10.0 ** math.floor(math.log10(raw))
+    for k in (1.0, 2.0, 5.0, 10.0):
         if raw <= k * mag:
             return k * mag
-    return 10 * mag
+    return 10.0 * mag
 
 
 def swr_axis(values: Sequence[float]) -> tuple[float, float, float]:
@@ -192,10 +192,10 @@ def _swr_plot(ctx: Context, sw: SweepResult, target_hz: float | None) -> Any:
     d.add(lp)
 
     def px(f_mhz: float) -> float:
-        return lp.x + (f_mhz - f_lo) / (f_hi - f_lo) * lp.width
+        return float(lp.x + (f_mhz - f_lo) / (f_hi - f_lo) * lp.width)
 
     def py(s: float) -> float:
-        return lp.y + (s - lo) / (top - lo) * lp.height
+        return float(lp.y + (s - lo) / (top - lo) * lp.height)
 
     for level in (1.5, 2.0):
         if level < top:
