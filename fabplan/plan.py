@@ -22,6 +22,7 @@ from dataclasses import dataclass
 from .design.forming import FormingSettings
 from .design.jig import JigSettings
 from .design.model import Design, ElementSpec, StockSpec
+from .drilling.records import DrillPattern
 from .em.build import ElectricalInput
 from .em.records import ElementElectrical, PlanElectrical
 from .em.stage import electrical
@@ -116,6 +117,7 @@ class Plan:
     order: Order | None = None
     jig: JigLayout | None = None
     electrical: PlanElectrical | None = None
+    drilling: tuple[DrillPattern, ...] = ()  # boom, mast: holes from one datum
 
     @property
     def has_errors(self) -> bool:

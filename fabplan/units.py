@@ -26,7 +26,8 @@ __all__ = [
     "parse_length", "parse_frequency", "parse_angle", "parse_mass", "parse_power",
     "parse_currency", "format_inches", "format_mm", "format_length", "format_signed_length",
     "format_frequency", "format_money", "format_weight", "format_number",
-    "format_drawing_length", "wrap_words",
+    "format_drawing_length", "wrap_words", "parse_capacitance", "parse_resistance",
+    "parse_voltage",
 ]
 
 MM = 1.0
@@ -329,3 +330,43 @@ def wrap_words(text: str, width: int) -> list[str]:
     if cur:
         lines.append(cur)
     return lines
+
+
+# -- electrical quantities of parts: capacitance, resistance, voltage -----------------
+_PART = re.compile(r"\s*((?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?)\s*([a-zA-Zµμ]+)\s*")
+_CAPACITANCE = {"pf": 1e-12, "nf": 1e-9, "uf": 1e-6, "µf": 1e-6, "μf": 1e-6, "f": 1.0}
+_RESISTANCE = {"mohm": 1e-3, "ohm": 1.0, "ohms": 1.0, "kohm": 1e3}
+_VOLTAGE = {"v": 1.0, "kv": 1e3}
+
+
+def _part(text: object, field: str, table: dict[str, float], what: str, example: str,
+          high: float) -> float:
+    m = _PART.fullmatch(text) if isinstance(text, str) else None
+    if not m:
+        raise DesignError(f"expected {what} with its unit, e.g. {example}", field=field,
+                          value=text)
+    unit = m.group(2)
+    factor = table.get(unit.lower()) if unit != "mOhm" else 1e-3
+    if factor is None:
+        raise DesignError(f"unknown unit {unit!r} for {what}: use "
+                          + ", ".join(k for k in table if k.isascii()), field=field, value=text)
+    value = float(m.group(1)) * factor
+    if not (math.isfinite(value) and 0 < value <= high):
+        raise DesignError(f"must be positive and at most {high:g} in SI units", field=field,
+                          value=text)
+    return value
+
+
+def parse_capacitance(text: object, field: str) -> float:
+    """"120 pF", "0.1 uF", "1 nF" -> farads (positive, at most 1 F)."""
+    return _part(text, field, _CAPACITANCE, "a capacitance", '"120 pF"', 1.0)
+
+
+def parse_resistance(text: object, field: str) -> float:
+    """"0.05 ohm", "50 mohm", "1 kohm" -> ohms (positive, at most 1 Mohm)."""
+    return _part(text, field, _RESISTANCE, "a resistance", '"0.05 ohm"', 1e6)
+
+
+def parse_voltage(text: object, field: str) -> float:
+    """"5 kV", "500 V" -> volts (positive, at most 1 MV)."""
+    return _part(text, field, _VOLTAGE, "a voltage", '"5 kV"', 1e6)

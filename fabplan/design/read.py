@@ -22,6 +22,7 @@ from ..stock.materials import OVERRIDABLE, get_material
 from ..stock.profiles import Profile, Round, Strip, Tube, parse_gauge
 from ..units import FRACTIONS, LENGTH_UNITS
 from .electrical import read_electrical
+from .element import EXTRA_KEYS, read_element_extras
 from .forming import read_forming
 from .jig import read_jig
 from .model import Design, ElementSpec, Shop, StockSpec
@@ -78,7 +79,7 @@ def _read_stock(sec: Section) -> StockSpec:
     sec.mark_used("catalogue", "diameter", "gauge", "tube", "strip")
     if len(given) != 1:
         raise DesignError("give exactly one of catalogue, diameter, gauge, tube or strip"
-                          + (f" (found {', '.join(given)})" if given else ""), field="stock")
+                          + (f" (found {', '.join(given)})" if given else ""), field=sec.path)
     kind = given[0]
     default_material = None
     profile: Profile
@@ -100,7 +101,7 @@ def _read_stock(sec: Section) -> StockSpec:
         t.finish()
         if 2 * wall >= od:
             raise DesignError("the wall must be less than half the outside diameter",
-                              field="stock.tube.wall", value=sec.raw("tube")["wall"])
+                              field=sec.field("tube.wall"), value=sec.raw("tube")["wall"])
         profile = Tube(od, wall)
         description, source = profile.describe(), "dimensions from the design"
     else:
@@ -115,7 +116,7 @@ def _read_stock(sec: Section) -> StockSpec:
         material = get_material(default_material)
     else:
         raise DesignError("is required (run `fabplan materials` for the list)",
-                          field="stock.material")
+                          field=sec.field("material"))
     props = sec.table("properties", None)
     if props is not None:
         changes = {}
@@ -165,8 +166,11 @@ def _read_elements(top: Section) -> tuple[ElementSpec, ...]:
         names.add(name)
         quantity = sec.integer("quantity", 1, low=1, high=100_000)
         trim = sec.length("trim", None, allow_zero=True)
-        sec.finish(also_allowed=SHAPES[shape].keys)  # misspelt keys first: they explain the rest
+        # misspelt keys first: they explain the rest
+        sec.finish(also_allowed=SHAPES[shape].keys + EXTRA_KEYS)
+        stock, placement, capacitor = read_element_extras(sec, _read_stock)
         params = SHAPES[shape].read(sec)
         sec.finish()
-        out.append(ElementSpec(name, shape, params, quantity, trim))
+        out.append(ElementSpec(name, shape, params, quantity, trim, stock, placement,
+                               capacitor))
     return tuple(out)

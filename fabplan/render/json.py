@@ -349,6 +349,15 @@ def plan_to_dict(plan: Plan) -> dict[str, Any]:
         out["order"] = order_dict(plan.order)
     if plan.electrical is not None:
         out["electrical"] = _plan_electrical(plan.electrical)
+    if plan.drilling:
+        out["drilling"] = [{
+            "name": d.name, "section": d.section, "outside_mm": num(d.outside_mm),
+            "length_mm": num(d.length_mm), "circumference_mm": num(d.circumference_mm),
+            "datum": d.datum,
+            "holes": [{"label": h.label, "from_datum_mm": num(h.from_datum_mm),
+                       "angle_deg": num(h.angle_deg, 3), "diameter_mm": num(h.diameter_mm),
+                       "through": h.through, "purpose": h.purpose} for h in d.holes]}
+            for d in plan.drilling]
     return out
 
 
