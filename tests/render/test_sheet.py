@@ -487,18 +487,22 @@ def _tables(data: bytes, first_header: str) -> list[list[str]]:
     return rows
 
 
+def _example_text(units: str) -> str:
+    """The example in a shop of `units`, without its electrical check (quicker; the
+    electrical section is the lead's)."""
+    text = EXAMPLE.read_text().replace('units = "in"', f'units = "{units}"')
+    return text[:text.index("[electrical]")] + text[text.index("# Buying the stock"):]
+
+
 @pytest.mark.parametrize("units", ["in", "mm"])
 def test_every_caption_and_cut_in_the_shops_unit_first(write_design, units):
     """Issue 15: a millimetre shop read "Lengths in inches ... and millimetres", cut
     lengths inches first and start positions in mm only."""
     from fabplan.units import format_length
 
-    text = EXAMPLE.read_text().replace('units = "in"', f'units = "{units}"')
-    plan = make_plan(load_design(write_design(text)))
+    plan = make_plan(load_design(write_design(_example_text(units))))
     data = sheet_pdf(plan, "a4")
     flat = _flat(data)
-    # the electrical section (render/sheet/electrical.py) is the lead's, not checked here
-    flat = flat[:flat.index("Electrical check")] + flat[flat.index("Findings what to do"):]
     first, second = ("inches", "millimetres") if units == "in" else ("millimetres", "inches")
     assert f"Lengths in {first}" in flat
     assert f"Lengths in {second}" not in flat
@@ -515,9 +519,8 @@ def test_every_caption_and_cut_in_the_shops_unit_first(write_design, units):
 def test_default_paper_follows_the_shops_units(write_design, paper_pt, run_cli, tmp_path):
     """Issue 15: the default paper was A4 even for a shop in inches. Letter and A4:
     ANSI/ASME Y14.1 and ISO 216 (the sizes in conftest)."""
-    inch = make_plan(load_design(EXAMPLE))
-    mm = make_plan(load_design(write_design(
-        EXAMPLE.read_text().replace('units = "in"', 'units = "mm"'))))
+    inch = make_plan(load_design(write_design(_example_text("in"), "in.toml")))
+    mm = make_plan(load_design(write_design(_example_text("mm"), "mm.toml")))
     for plan, paper in ((inch, "letter"), (mm, "a4")):
         data = sheet_pdf(plan)
         with pdfplumber.open(io.BytesIO(data)) as pdf:
@@ -527,7 +530,7 @@ def test_default_paper_follows_the_shops_units(write_design, paper_pt, run_cli, 
         assert f"the default for a shop in {shop}" in _flat(data)
     assert "as chosen (--paper)" in _flat(sheet_pdf(inch, "a4"))
     out = tmp_path / "s.pdf"
-    run_cli("sheet", EXAMPLE, "-o", out, check_exit=0)
+    run_cli("sheet", write_design(_example_text("in"), "cli.toml"), "-o", out, check_exit=0)
     with pdfplumber.open(out) as pdf:
         assert (pdf.pages[0].width, pdf.pages[0].height) == pytest.approx(paper_pt["letter"])
     helptext = re.sub(r"\s+", " ", run_cli("sheet", "--help", check_exit=0).stdout)
@@ -538,7 +541,7 @@ def test_default_paper_follows_the_shops_units(write_design, paper_pt, run_cli, 
 def test_a_long_element_name_wraps_or_is_shortened(write_design, name):
     """Issue 15: a 200-character element name raised reportlab's LayoutError (a
     cutting-plan cell taller than a page); with and without spaces it now fits."""
-    text = EXAMPLE.read_text().replace('name = "70 cm driven element"', f'name = "{name}"')
+    text = _example_text("in").replace('name = "70 cm driven element"', f'name = "{name}"')
     text = text.replace("quantity = 7", "quantity = 20")
     plan = make_plan(load_design(write_design(text)))
     data = sheet_pdf(plan, "a4")
