@@ -12,7 +12,7 @@ from ...plan import ElementPlan, PiecePlan
 from ...units import format_angle, format_inches, format_mm, format_money, format_number
 from ..fullscale.geometry import mark_ids
 from .context import Context, short_name
-from .drawings import DRAWING_SCALES, drawing
+from .drawings import DRAWING_SCALES, assembly, drawing
 
 __all__ = ["title", "stock", "cut_list", "element", "DRAWING_SCALES"]
 
@@ -146,6 +146,8 @@ def _marks(ctx: Context, e: PiecePlan) -> list[Any]:
 
 
 def _bend_table(ctx: Context, e: PiecePlan) -> list[Any]:
+    if not e.bends:
+        return [ctx.p("Bend table", ctx.h3), ctx.p("No bends: the piece stays straight.")]
     rows = []
     pitch = any(b.pitch_mm for b in e.bends)
     for b in e.bends:
@@ -337,6 +339,7 @@ def element(ctx: Context, e: ElementPlan) -> list[Any]:
         out += _steps(ctx, p)
         out += drawing(ctx, e, p)
         out += _jig(ctx, p)
+    out += assembly(ctx, e)
     est = e.estimate
     if est is not None:
         cost = ""

@@ -6,7 +6,10 @@ the shape declares them: `ElementGeometry.dimensions`), every label placed
 clear of the lines and of the other labels. A helix gets a side view square
 to its axis, with a tick for each turn, and an end view along the axis. Any
 other piece that is not flat is drawn projected onto its x-y plane. Arcs are
-drawn as true arcs; figures come from the Plan and are formatted here.
+drawn as true arcs; figures come from the Plan and are formatted here. An
+element of several pieces of stock is drawn once more assembled (its pieces in
+the element's frame, with the element's dimensions); each piece's own drawing
+then labels its straight runs.
 """
 
 from __future__ import annotations
@@ -26,7 +29,7 @@ from ..fullscale.papers import PT_PER_MM
 from .context import Context
 from .sketch import Label, Sketch, square_to, text_width
 
-__all__ = ["drawing", "DRAWING_SCALES"]
+__all__ = ["drawing", "assembly", "DRAWING_SCALES"]
 
 # preferred drawing scales (1:n), smallest reduction first
 DRAWING_SCALES = (1, 2, 2.5, 4, 5, 10, 20, 25, 50, 100)
@@ -177,6 +180,45 @@ def _flat(ctx: Context, e: ElementPlan, p: PiecePlan) -> tuple[Sketch, float]:
     return sk, s
 
 
+def assembly(ctx: Context, e: ElementPlan) -> list[Any]:
+    """An element of several flat pieces drawn assembled, with the dimensions the
+    user gave for the whole element, as flowables (none for one piece)."""
+    if len(e.pieces) < 2 or not all(p.planar for p in e.pieces):
+        return []
+    geos = [piece_drawing(p) for p in e.pieces]
+    x0 = min(g.bbox[0] for g in geos)
+    y0 = min(g.bbox[1] for g in geos)
+    x1 = max(g.bbox[2] for g in geos)
+    y1 = max(g.bbox[3] for g in geos)
+    s = _scale_for(x1 - x0, y1 - y0, ctx.frame_w / PT_PER_MM - 2 * PAD_MM, ROOM_H_MM)
+    k = PT_PER_MM / s
+    ox, oy = (ctx.frame_w - (x1 - x0) * k) / 2 - x0 * k, -y0 * k
+
+    def P(x: float, y: float) -> Pt:
+        return (ox + x * k, oy + y * k)
+
+    sk = Sketch(ctx.frame_w)
+    for g in geos:
+        for prim in g.centreline:
+            _prim(sk, prim, P, k, 0.4, GREY, DASH_DOT)
+        for prim in g.outline:
+            _prim(sk, prim, P, k, 0.8, (0.0, 0.0, 0.0), None)
+    _dimensions(ctx, sk, [(d, P(d.a[0], d.a[1]), P(d.b[0], d.b[1]),
+                           (d.away[0], d.away[1]) if any(d.away) else None)
+                          for d in e.geometry.dimensions], k)
+    for p, g in zip(e.pieces, geos):
+        gx0, gy0, gx1, gy1 = g.bbox
+        lab = Label([p.label], P((gx0 + gx1) / 2, gy0), size=6.5)
+        lab.around([(0.0, -1.0), (0.3, -1.0), (-0.3, -1.0)], (2.0, 6.0))
+        sk.place(lab)
+    sk.layout()
+    _scale_bar(ctx, sk, s)
+    return _together(ctx, "Drawing to scale: the element assembled",
+                     "Every piece of stock in its place, outline solid and centreline dash-dot; "
+                     "dimensions with arrows are those the design gives for the whole element.",
+                     sk)
+
+
 def _prim(sk: Sketch, prim: tuple[Any, ...], P: Any, k: float, width: float,
           colour: tuple[float, float, float], dash: tuple[float, ...] | None) -> None:
     if prim[0] == "L":
@@ -311,7 +353,9 @@ def drawing(ctx: Context, e: ElementPlan, p: PiecePlan) -> list[Any]:
         caption = ("Outline solid, centreline dash-dot; red ticks are the marks (ids as in "
                    "the marks table)" + ("; blue dashed circles are the jig's formers"
                                          if f is not None and f.formers else "")
-                   + "; dimensions with arrows are those the design gives.")
+                   + ("; dimensions with arrows are those the design gives."
+                      if len(e.pieces) == 1 and e.geometry.dimensions else
+                      "; the straight runs are labelled with their lengths."))
     else:
         sk, s = _projected(ctx, p)
         head = "Drawing to scale (projected)"
@@ -320,7 +364,14 @@ def drawing(ctx: Context, e: ElementPlan, p: PiecePlan) -> list[Any]:
                    "marks table or the full-scale template's marking strip.")
     sk.layout()
     _scale_bar(ctx, sk, s)
-    return [ctx.p(head, ctx.h3), ctx.p(caption, ctx.small), sk.drawing()]
+    return _together(ctx, head, caption, sk)
+
+
+def _together(ctx: Context, head: str, caption: str, sk: Sketch) -> list[Any]:
+    """Heading, caption and drawing kept on one page."""
+    from reportlab.platypus import KeepTogether
+
+    return [KeepTogether([ctx.p(head, ctx.h3), ctx.p(caption, ctx.small), sk.drawing()])]
 
 
 def _scale_bar(ctx: Context, sk: Sketch, s: float) -> None:
