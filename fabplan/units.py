@@ -25,7 +25,7 @@ __all__ = [
     "Currency", "CURRENCY_SYMBOLS",
     "parse_length", "parse_frequency", "parse_angle", "parse_mass", "parse_power",
     "parse_currency", "format_inches", "format_mm", "format_length", "format_signed_length",
-    "format_frequency", "format_money", "format_weight", "format_number",
+    "format_frequency", "format_money", "format_weight", "format_number", "format_angle",
     "format_drawing_length", "wrap_words", "parse_capacitance", "parse_resistance",
     "parse_voltage",
 ]
@@ -219,6 +219,15 @@ def format_number(x: float, places: int = 1) -> str:
     """A figure to `places` decimals, never "-0.0"."""
     v = round(x, places)
     return f"{0.0 if v == 0 else v:.{places}f}"
+
+
+def format_angle(deg: float) -> str:
+    """An angle in degrees for people: one decimal at most, none when whole
+    (`90`, `355.4`, `-12.5`)."""
+    v = round(deg, 1)
+    if v == 0:
+        return "0"
+    return f"{v:.0f}" if v == round(v) else f"{v:.1f}"
 
 
 def format_weight(kg: float, unit: LengthUnit = "mm") -> str:

@@ -31,6 +31,8 @@ __all__ = ["COMMANDS", "sheet", "template", "build", "build_files", "BUILD_NAMES
 
 SHEET_PAPER_CHOICES = ("a4", "letter")
 TEMPLATE_PAPER_CHOICES = ("a4", "letter", "roll-610mm", "roll-914mm")
+# the paper when --paper is not given: Letter for a shop in inches, A4 for millimetres
+PAPER_HELP = "Default: letter for a shop in inches, a4 for millimetres ([shop] units)."
 BUILD_NAMES = {
     "plan": "plan.json",
     "sheet": "build-sheet.pdf",
@@ -53,8 +55,8 @@ class _Progress:
             click.echo(f"fabplan: {what}", err=True)
 
 
-def _write_pdf(design: Path, output: Path, paper: str, force: bool, with_errors: bool,
-               render: Callable[[Any, str], bytes]) -> None:
+def _write_pdf(design: Path, output: Path, paper: str | None, force: bool, with_errors: bool,
+               render: Callable[[Any, str | None], bytes]) -> None:
     """Check the target, plan, render(plan, paper) and write atomically."""
     from ..render.files import check_writable, write_bytes
 
@@ -74,43 +76,52 @@ def _write_pdf(design: Path, output: Path, paper: str, force: bool, with_errors:
 @design_argument
 @click.option("-o", "--output", required=True, type=click.Path(path_type=Path),
               help="The PDF file to write.")
-@click.option("--paper", default="a4", show_default=True,
-              type=click.Choice(SHEET_PAPER_CHOICES, case_sensitive=False), help="Paper size.")
+@click.option("--paper", default=None,
+              type=click.Choice(SHEET_PAPER_CHOICES, case_sensitive=False),
+              help=f"Paper size. {PAPER_HELP}")
 @click.option("--force", is_flag=True, help="Replace an existing file.")
 @with_errors_option
 @guarded
-def sheet(design: Path, output: Path, paper: str, force: bool, with_errors: bool) -> None:
+def sheet(design: Path, output: Path, paper: str | None, force: bool,
+          with_errors: bool) -> None:
     """Write the PDF build sheet: cut list, marks, bends, drawing, order, safety."""
     from ..render.sheet import sheet_pdf
 
-    _write_pdf(design, output, paper.lower(), force, with_errors, sheet_pdf)
+    _write_pdf(design, output, paper and paper.lower(), force, with_errors, sheet_pdf)
 
 
 @click.command()
 @design_argument
 @click.option("-o", "--output", required=True, type=click.Path(path_type=Path),
               help="The PDF file to write.")
-@click.option("--paper", default="a4", show_default=True,
+@click.option("--paper", default=None,
               type=click.Choice(TEMPLATE_PAPER_CHOICES, case_sensitive=False),
-              help="Paper: tiles on a4/letter, or one page on a print shop's roll.")
+              help=f"Paper: tiles on a4/letter, or one page on a print shop's roll. "
+                   f"{PAPER_HELP}")
 @click.option("--force", is_flag=True, help="Replace an existing file.")
 @with_errors_option
 @guarded
-def template(design: Path, output: Path, paper: str, force: bool, with_errors: bool) -> None:
+def template(design: Path, output: Path, paper: str | None, force: bool,
+             with_errors: bool) -> None:
     """Write the full-scale (1:1) template to print at actual size and mark from."""
     from ..render.fullscale import template_pdf
+    from ..render.sheet import default_paper
 
-    _write_pdf(design, output, paper.lower(), force, with_errors, template_pdf)
+    def render(plan: Any, chosen: str | None) -> bytes:
+        return template_pdf(plan, chosen or default_paper(plan.design.shop.units))
+
+    _write_pdf(design, output, paper and paper.lower(), force, with_errors, render)
 
 
-def build_files(plan: Any, paper: str = "a4", template_paper: str | None = None,
+def build_files(plan: Any, paper: str | None = None, template_paper: str | None = None,
                 progress: Callable[[str], None] | None = None) -> dict[str, bytes]:
-    """Every output of `plan` as {file name: bytes} (nothing written)."""
+    """Every output of `plan` as {file name: bytes} (nothing written). Without a
+    paper, the shop's default (Letter for inches, A4 for millimetres)."""
     from ..render.csv import plan_sweep_csv
     from ..render.fullscale import template_pdf
     from ..render.jig import jig_files
     from ..render.json import plan_to_json
-    from ..render.sheet import sheet_pdf
+    from ..render.sheet import default_paper, sheet_pdf
 
     progress = progress or (lambda what: None)
     files: dict[str, bytes] = dict(jig_files(plan))
@@ -121,7 +132,8 @@ def build_files(plan: Any, paper: str = "a4", template_paper: str | None = None,
     progress("drawing the build sheet")
     files[BUILD_NAMES["sheet"]] = sheet_pdf(plan, paper)
     progress("drawing the full-scale template")
-    files[BUILD_NAMES["template"]] = template_pdf(plan, template_paper or paper)
+    files[BUILD_NAMES["template"]] = template_pdf(
+        plan, template_paper or paper or default_paper(plan.design.shop.units))
     return files
 
 
@@ -130,16 +142,16 @@ def build_files(plan: Any, paper: str = "a4", template_paper: str | None = None,
 @click.option("-o", "--output", required=True,
               type=click.Path(path_type=Path),
               help="The folder to write into (made if missing).")
-@click.option("--paper", default="a4", show_default=True,
+@click.option("--paper", default=None,
               type=click.Choice(SHEET_PAPER_CHOICES, case_sensitive=False),
-              help="Paper for the build sheet and the template tiles.")
+              help=f"Paper for the build sheet and the template tiles. {PAPER_HELP}")
 @click.option("--template-paper", default=None,
               type=click.Choice(TEMPLATE_PAPER_CHOICES, case_sensitive=False),
               help="Paper for the template, if not --paper (e.g. a print shop's roll).")
 @click.option("--force", is_flag=True, help="Replace existing files.")
 @with_errors_option
 @guarded
-def build(design: Path, output: Path, paper: str, template_paper: str | None,
+def build(design: Path, output: Path, paper: str | None, template_paper: str | None,
           force: bool, with_errors: bool) -> None:
     """Write everything: plan.json, jig DXF/SVG, build sheet, 1:1 template, sweep CSV."""
     from ..render.files import check_writable, write_set
@@ -152,8 +164,8 @@ def build(design: Path, output: Path, paper: str, template_paper: str | None,
     progress = _Progress()
     plan = load_plan(design)
     refuse_errors(plan, with_errors)
-    files = build_files(plan, paper.lower(), template_paper and template_paper.lower(),
-                        progress)
+    files = build_files(plan, paper and paper.lower(),
+                        template_paper and template_paper.lower(), progress)
     progress(f"writing {len(files)} files into {output}")
     for p in write_set(output, files, force):
         click.echo(f"wrote {p}", err=True)

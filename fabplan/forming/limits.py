@@ -2,7 +2,9 @@
 
 Each rule says where it comes from. All radii are centreline radii (mm) of the
 bend as it is formed (held on the former or in the tool's die), since that is
-the radius the metal sees. Findings carry stable codes:
+the radius the metal sees. The findings' messages speak in the builder's terms
+(the finished centreline radius the shape gives, and one radius that clears
+every rule). Findings carry stable codes:
 
     bend-too-tight          error    below the minimum radius for material/temper/profile
     bend-tight              warning  inside the rule's range: test-bend first
@@ -20,7 +22,7 @@ source, [P] common practice.
 
 from __future__ import annotations
 
-from collections.abc import Iterable
+from collections.abc import Callable, Iterable, Mapping
 from dataclasses import dataclass
 from functools import lru_cache
 
@@ -187,78 +189,107 @@ def _bends(items: list[BendLimits]) -> str:
 
 
 def limit_findings(limits: list[BendLimits], material: Material, profile: Profile,
-                   element: str, finished_per_held: dict[int, float] | None = None
-                   ) -> list[Finding]:
+                   element: str, finished_for_held: Callable[[float], float] | None = None,
+                   design_radius_mm: Mapping[int, float] | None = None) -> list[Finding]:
     """Findings for the bends of one element, one per code, naming the bends.
 
-    `finished_per_held` maps a bend index to its finished/held radius ratio, to
-    say what finished radius gives the minimum held radius."""
+    The rules bound the radius the metal sees while it is held (on the former
+    or in the tool); the messages speak in the builder's terms instead: the
+    finished centreline radius the shape gives (`design_radius_mm`, by bend
+    index; without it, the held radius released by `finished_for_held`) and
+    one recommendation, the same in every finding: the smallest finished
+    centreline radius that clears every radius rule that fired.
+    `finished_for_held(held_mm)` is the finished centreline radius a bend held
+    at `held_mm` springs back to (the identity without it)."""
     out: list[Finding] = []
     rule = minimum_radius(material, profile)
-    ratio = finished_per_held or {}
+    release = finished_for_held or (lambda held_mm: held_mm)
     remedy = _remedy(material, profile)
     what = f"{material.name}, {profile.describe()}"
+    depth = profile.depth_mm
 
-    def finished(x: BendLimits, held_mm: float) -> float:
-        return held_mm * ratio.get(x.index, 1.0)
+    def held(x: BendLimits) -> float:
+        return x.d_of_bend * depth
 
-    tight = [x for x in limits if x.d_of_bend * profile.depth_mm < rule.error_mm - 1e-9]
+    def given(x: BendLimits) -> float:
+        if design_radius_mm is not None and x.index in design_radius_mm:
+            return design_radius_mm[x.index]
+        return release(held(x))
+
+    def radius_text(group: list[BendLimits]) -> str:
+        """`the 40.0 mm centreline radius` (or the range, when the bends differ)."""
+        radii = sorted({round(given(x), 1) for x in group})
+        if len(radii) == 1:
+            return f"the {radii[0]:.1f} mm centreline radius"
+        return f"centreline radii of {radii[0]:.1f} to {radii[-1]:.1f} mm"
+
+    tight = [x for x in limits if held(x) < rule.error_mm - 1e-9]
+    near = [x for x in limits if x not in tight and held(x) < rule.warn_mm - 1e-9]
+    over = [x for x in limits if x.outer_strain > x.elongation]
+    high = [x for x in limits if x not in over and x.outer_strain > 0.75 * x.elongation]
+    tube = isinstance(profile, Tube)
+    od = profile.od_mm if isinstance(profile, Tube) else depth
+    # mandrel and kink guidance: tooling makers' rules of thumb [P]
+    mand = [x for x in limits if tube and x.d_of_bend < 1.5]
+    kink = [x for x in limits if tube and x not in mand and x.wall_factor is not None
+            and x.wall_factor >= 15 and x.d_of_bend < 3]
+    # the held radius each fired rule needs; the one recommendation clears them all
+    needs = []
+    if tight or near:
+        needs.append(rule.warn_mm)  # past the error bound the warning would still stand
+    if over:
+        needs.append(depth / (2 * min(x.elongation for x in over)))
+    if mand:
+        needs.append(1.5 * od)
+    if kink:
+        needs.append(3.0 * od)
+    advice = ""
+    if needs:
+        advice = (f"; use a centreline radius of at least {release(max(needs)):.1f} mm to "
+                  "clear every radius limit for this stock")
     if tight:
-        worst = min(tight, key=lambda x: x.d_of_bend)
         out.append(Finding(
             "bend-too-tight", "error",
-            f"{_bends(tight)}: formed at a centreline radius of "
-            f"{worst.d_of_bend * profile.depth_mm:.1f} mm, below the minimum "
-            f"{rule.error_mm:.1f} mm for {what} ({rule.basis}); make the finished centreline "
-            f"radius at least {finished(worst, rule.error_mm):.1f} mm"
+            f"{_bends(tight)}: {radius_text(tight)} is tighter than {what} allows: the "
+            f"smallest is {release(rule.error_mm):.1f} mm ({rule.basis})" + advice
             + (f", or {remedy}" if remedy else ""), element))
-    near = [x for x in limits if x not in tight
-            and x.d_of_bend * profile.depth_mm < rule.warn_mm - 1e-9]
     if near:
-        worst = min(near, key=lambda x: x.d_of_bend)
         out.append(Finding(
             "bend-tight", "warning",
-            f"{_bends(near)}: centreline radius {worst.d_of_bend * profile.depth_mm:.1f} mm is "
-            f"at the tight end of the usual range for {what} ({rule.basis}); make a test bend "
-            f"first, or use a finished radius of {finished(worst, rule.warn_mm):.1f} mm",
-            element))
-    over = [x for x in limits if x.outer_strain > x.elongation]
+            f"{_bends(near)}: {radius_text(near)} is at the tight end of the usual range for "
+            f"{what}, under {release(rule.warn_mm):.1f} mm ({rule.basis}); make a test bend "
+            "first" + advice, element))
     if over:
         worst = max(over, key=lambda x: x.outer_strain)
-        need = profile.depth_mm / (2 * worst.elongation)
         out.append(Finding(
             "outer-strain-exceeds-elongation", "warning",
-            f"{_bends(over)}: outer-fibre strain {100 * worst.outer_strain:.0f} % exceeds the "
+            f"{_bends(over)}: at {radius_text(over)} the outer fibre stretches "
+            f"{100 * worst.outer_strain:.0f} % while bent, more than the "
             f"{100 * worst.elongation:.0f} % elongation at break of {material.name}: the outside "
             "may crack (a bend spreads the strain, so it often survives a little more than the "
-            "tensile elongation; make a test bend); to stay within it use a centreline radius "
-            f"over {finished(worst, need):.1f} mm or a softer temper", element))
-    high = [x for x in limits if x not in over and x.outer_strain > 0.75 * x.elongation]
+            "tensile elongation; make a test bend, or use a softer temper)" + advice, element))
     if high:
         worst = max(high, key=lambda x: x.outer_strain)
         out.append(Finding(
             "outer-strain-high", "info",
-            f"{_bends(high)}: outer-fibre strain {100 * worst.outer_strain:.0f} % is near the "
+            f"{_bends(high)}: at {radius_text(high)} the outer fibre stretches "
+            f"{100 * worst.outer_strain:.0f} % while bent, near the "
             f"{100 * worst.elongation:.0f} % elongation of {material.name}; expect surface "
-            "cracking; use a larger radius or a softer temper", element))
+            "cracking; use a larger radius or a softer temper" + advice, element))
+    if mand:
+        out.append(Finding(
+            "mandrel-needed", "warning",
+            f"{_bends(mand)}: {radius_text(mand)} is tighter than 1.5 D of bend: a tube this "
+            "tight usually needs a mandrel bender (or a bending spring or sand fill for soft "
+            "copper)" + advice, element))
+    if kink:
+        out.append(Finding(
+            "kink-risk", "warning",
+            f"{_bends(kink)}: thin wall (wall factor {kink[0].wall_factor:.0f}) at "
+            f"{radius_text(kink)}, under 3 D of bend while bent: the tube may flatten or kink; "
+            "support it with a bending spring or packed dry sand, use a mandrel or a heavier "
+            "wall" + advice, element))
     if isinstance(profile, Tube):
-        # mandrel and kink guidance: tooling makers' rules of thumb [P]
-        mand = [x for x in limits if x.d_of_bend < 1.5]
-        if mand:
-            out.append(Finding(
-                "mandrel-needed", "warning",
-                f"{_bends(mand)}: tighter than 1.5 D of bend: a tube this tight usually needs "
-                "a mandrel bender (or a bending spring or sand fill for soft copper), or use a "
-                f"centreline radius of at least {1.5 * profile.od_mm:.1f} mm", element))
-        kink = [x for x in limits if x not in mand and x.wall_factor is not None
-                and x.wall_factor >= 15 and x.d_of_bend < 3]
-        if kink:
-            out.append(Finding(
-                "kink-risk", "warning",
-                f"{_bends(kink)}: thin wall (wall factor {kink[0].wall_factor:.0f}) at "
-                f"{min(x.d_of_bend for x in kink):.1f} D of bend: the tube may flatten or kink; "
-                "support it with a bending spring or packed dry sand, use a mandrel, a heavier "
-                f"wall, or a centreline radius of at least {3 * profile.od_mm:.1f} mm", element))
         thin = [x for x in limits if x.wall_outside_mm is not None
                 and x.wall_outside_mm < 0.8 * profile.wall_mm]
         if thin:

@@ -163,9 +163,13 @@ def form_piece(e: PieceCore, name: str, sm: StockModel, settings: FormingSetting
 
     limits = [bend_limits(b.index, s.held_radius_mm, material, profile)
               for b, s in zip(rows, states)]
-    ratio = {b.index: s.final_radius_mm / s.held_radius_mm for b, s in zip(rows, states)
-             if not math.isinf(s.final_radius_mm)}
-    findings += limit_findings(limits, material, profile, name, ratio)
+    def finished_for(held_mm: float) -> float:
+        """The finished centreline radius of a bend held at `held_mm`."""
+        kr = model.released_one(1.0 / held_mm)
+        return 1.0 / kr if kr > 0 else math.inf
+
+    findings += limit_findings(limits, material, profile, name, finished_for,
+                               {b.index: b.centreline_radius_mm for b in rows})
 
     centre = e.developed_length_mm / 2  # along the neutral axis from end A, no trim
     sites = [BendSite(b.index, b.start_from_end_mm, b.end_from_end_mm, b.angle_deg,

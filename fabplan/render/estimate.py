@@ -40,7 +40,8 @@ def estimate_text(plan: Plan) -> str:
             continue
         rows.append([e.name, str(e.quantity), str(est.spares),
                      format_length(e.cut_length_mm, unit, den),
-                     format_weight(est.weight_kg), format_weight(est.batch_weight_kg),
+                     format_weight(est.weight_kg, unit),
+                     format_weight(est.batch_weight_kg, unit),
                      format_money(est.cost, order.currency),
                      format_money(est.batch_cost, order.currency)])
     out.append(table(["element", "qty", "spares", "cut length", "weight each", "weight batch",

@@ -18,9 +18,9 @@ from ..measure.analysis import Band
 from ..plan import PiecePlan, Plan
 from ..units import (
     LengthUnit,
+    format_angle,
     format_frequency,
     format_length,
-    format_mm,
     format_money,
     format_weight,
 )
@@ -76,9 +76,9 @@ def _piece_text(p: PiecePlan, gap_mm: float | None, L: Callable[[float], str],
     out.append(f"Mass (cut piece)   {p.mass_kg * 1000:.1f} g")
     out.append("")
     out.append("Bend table (trade order from end A; lengths on the centreline)")
-    rows = [[str(b.index), L(b.straight_before_mm), f"{b.rotation_deg:g}",
-             f"{b.angle_deg:g}", L(b.centreline_radius_mm)]
-            + ([format_mm(b.pitch_mm)] if b.pitch_mm else [])
+    rows = [[str(b.index), L(b.straight_before_mm), format_angle(b.rotation_deg),
+             format_angle(b.angle_deg), L(b.centreline_radius_mm)]
+            + ([L(b.pitch_mm)] if b.pitch_mm else [])
             for b in p.bends]
     head = ["bend", "straight before", "rotation deg", "angle deg", "centreline radius"]
     if any(b.pitch_mm for b in p.bends):

@@ -21,6 +21,14 @@ def _change(mm: float, d: Design) -> str:
     return format_signed_length(mm, d.shop.units, d.shop.fraction)
 
 
+def _from_centre(mm: float, d: Design) -> str:
+    """A mark as `fabplan plan` gives it: the half of the stock (A or B) and the
+    distance from the centre mark, `A 995.7 mm (39 7/32")`."""
+    if abs(mm) < 1e-9:
+        return "0 (centre)"
+    return f"{'A' if mm < 0 else 'B'} {_len(abs(mm), d)}"
+
+
 def tune_text(r: TuneResult, d: Design, settings: ElectricalSettings) -> list[str]:
     """`fabplan tune`: the tuned length, what it moves, and the new marks."""
     what = "least SWR through the matching" if r.tune_for == "least-swr" else "resonance (X = 0)"
@@ -37,9 +45,10 @@ def tune_text(r: TuneResult, d: Design, settings: ElectricalSettings) -> list[st
              f"  cut length: {_len(r.old_cut_mm, d)} -> {_len(r.new_cut_mm, d)} (change "
              f"{_change(r.new_cut_mm - r.old_cut_mm, d)})",
              f"  ({r.iterations} secant steps, {r.models_built} models)", "",
-             "Marks on the straight stock: from the centre mark, and from cut end A"]
-    rows = [[m.label, _len(m.new_from_centre_mm, d),
-             _change(m.new_from_centre_mm - m.old_from_centre_mm, d),
+             "Marks on the straight stock: from the centre mark towards end A or B (a change "
+             "of + moves the mark away from the centre), and from cut end A"]
+    rows = [[m.label, _from_centre(m.new_from_centre_mm, d),
+             _change(abs(m.new_from_centre_mm) - abs(m.old_from_centre_mm), d),
              _len(m.new_from_end_mm, d), _change(m.new_from_end_mm - m.old_from_end_mm, d)]
             for m in r.marks]
     lines.append(table(["mark", "new from centre", "change", "new from end A", "change"], rows,

@@ -17,6 +17,7 @@ far the legs would splay if springback were ignored.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from collections.abc import Callable
 from dataclasses import dataclass
@@ -27,8 +28,8 @@ from ...section import Section
 from ..path import BendPath
 
 __all__ = ["ShapeSpec", "ParallelEnds", "PieceGeometry", "End", "Gap", "ElementGeometry",
-           "TunedValue", "pick_one", "spacing_centre", "gap_and_offset", "arc_angle_of_chord",
-           "centre_to_centre"]
+           "Dimension", "TunedValue", "pick_one", "spacing_centre", "gap_and_offset",
+           "arc_angle_of_chord", "centre_to_centre"]
 
 # a design-file value the tuner writes back: ("length", mm) or ("number", value)
 TunedValue = tuple[Literal["length", "number"], float]
@@ -63,12 +64,37 @@ class Gap:
     role: Literal["feed", "load"] = "feed"
 
 
+Vec3 = tuple[float, float, float]
+
+
+@dataclass(frozen=True)
+class Dimension:
+    """A dimension the user gave, for a drawing to show (data only, no drawing).
+
+    It measures `value_mm`, the value of the design-file key `key`, from point
+    `a` to point `b` (both in the element's frame, mm; for a helix, points of
+    its side view, see `fabplan.geometry.shapes.helix`). The dimension line
+    stands off the element on the side `away` points to (a unit vector in the
+    element's frame), with extension lines back to `a` and `b`; `away` =
+    (0, 0, 0) draws the dimension line between `a` and `b` themselves (a
+    dimension inside the element, such as the spacing between two sides).
+    """
+
+    key: str
+    value_mm: float
+    a: Vec3
+    b: Vec3
+    away: Vec3 = (0.0, 0.0, 0.0)
+
+
 @dataclass(frozen=True)
 class ElementGeometry:
-    """The pieces of stock an element is made of, and the gaps between their ends."""
+    """The pieces of stock an element is made of, the gaps between their ends,
+    and the dimensions the user gave (for drawings)."""
 
     pieces: tuple[PieceGeometry, ...]
     gaps: tuple[Gap, ...] = ()
+    dimensions: tuple[Dimension, ...] = ()
 
     @property
     def feed(self) -> Gap | None:
@@ -109,6 +135,7 @@ class ShapeSpec:
     (by default the one piece `build` makes, fed across its gap when it has one)
     gives every piece and gap. `tuned_keys(params)` gives the design-file keys
     that carry the governing length and their values for these params.
+    `dimensions(params, d)` gives the dimensions the user gave, for drawings.
     """
 
     name: str
@@ -122,11 +149,15 @@ class ShapeSpec:
     tuned_keys: Callable[[Any], dict[str, TunedValue]]
     parallel_ends: ParallelEnds | None = None
     geometry: Callable[[Any, float], ElementGeometry] | None = None
+    dimensions: Callable[[Any, float], tuple[Dimension, ...]] | None = None
 
     def element_geometry(self, params: Any, diameter_mm: float) -> ElementGeometry:
-        """Every piece and gap of an element of this shape."""
+        """Every piece and gap of an element of this shape, with its dimensions."""
         make = self.geometry or _one_piece(self.build)
-        return make(params, diameter_mm)
+        geo = make(params, diameter_mm)
+        if self.dimensions is None:
+            return geo
+        return dataclasses.replace(geo, dimensions=self.dimensions(params, diameter_mm))
 
 
 def pick_one(sec: Section, keys: tuple[str, ...]) -> tuple[str, float]:

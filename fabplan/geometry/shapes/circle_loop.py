@@ -9,11 +9,12 @@ from __future__ import annotations
 import dataclasses
 import math
 from dataclasses import dataclass
+from typing import Literal
 
 from ...errors import Finding
 from ...section import Section
 from ..path import Bend, BendPath
-from .base import ShapeSpec, TunedValue, arc_angle_of_chord, pick_one
+from .base import Dimension, ShapeSpec, TunedValue, arc_angle_of_chord, pick_one
 
 NAME = "circle-loop"
 SUMMARY = "a full circle of stock less the feed gap"
@@ -23,12 +24,13 @@ SUMMARY = "a full circle of stock less the feed gap"
 class Params:
     diameter_mm: float
     feed_gap_mm: float
+    given: Literal["diameter", "circumference"] = "diameter"  # which the design gave
 
 
 def read(sec: Section) -> Params:
     kind, value = pick_one(sec, ("diameter", "circumference"))
     diameter = value if kind == "diameter" else value / math.pi
-    return Params(diameter, sec.length("feed_gap", 10.0))
+    return Params(diameter, sec.length("feed_gap", 10.0), kind)  # type: ignore[arg-type]
 
 
 def build(p: Params, d: float) -> BendPath:
@@ -66,5 +68,13 @@ def tuned_keys(p: Params) -> dict[str, TunedValue]:
             "circumference": ("length", math.pi * p.diameter_mm)}
 
 
+def dimensions(p: Params, d: float) -> tuple[Dimension, ...]:
+    """The centreline diameter across the circle (the circumference, when the
+    design gave that, drawn as the diameter it makes)."""
+    r = p.diameter_mm / 2
+    value = p.diameter_mm if p.given == "diameter" else math.pi * p.diameter_mm
+    return (Dimension(p.given, value, (-r, 0.0, 0.0), (r, 0.0, 0.0)),)
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 tuned_keys)
+                 tuned_keys, dimensions=dimensions)

@@ -15,8 +15,8 @@ import numpy as np
 
 from ...errors import DesignError, Finding
 from ...section import Section
-from ..path import Bend, BendPath, Piece, Straight
-from .base import ShapeSpec, TunedValue
+from ..path import Bend, BendPath, Line3, Piece, Straight
+from .base import Dimension, ShapeSpec, TunedValue
 
 NAME = "custom"
 SUMMARY = "a bend table given directly (straight, angle, radius, rotation per bend)"
@@ -91,5 +91,28 @@ def tuned_keys(p: Params) -> dict[str, TunedValue]:
     return {"tail": ("length", p.tail_mm)}
 
 
+def dimensions(p: Params, d: float) -> tuple[Dimension, ...]:
+    """Each straight the table gives (and the tail), beside its run on the side
+    away from the middle of the element; none for an element that is not flat."""
+    path = build(p, d)
+    if not path.is_planar():
+        return ()
+    keys = [f"straight {i}" for i, row in enumerate(p.rows, 1) if row.straight_mm > 0]
+    if p.tail_mm > 0:
+        keys.append("tail")
+    lines = [x for x in path.primitives() if isinstance(x, Line3)]
+    pts, _ = path.sample(max(path.centreline_length() / 200, 0.1))
+    mx, my = float(np.mean(pts[:, 0])), float(np.mean(pts[:, 1]))
+    out = []
+    for key, line in zip(keys, lines):
+        (ax, ay, _), (bx, by, _) = line.start, line.end
+        length = line.length
+        nx, ny = -(by - ay) / length, (bx - ax) / length
+        if ((ax + bx) / 2 - mx) * nx + ((ay + by) / 2 - my) * ny < 0:
+            nx, ny = -nx, -ny
+        out.append(Dimension(key, length, line.start, line.end, (nx, ny, 0.0)))
+    return tuple(out)
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 tuned_keys)
+                 tuned_keys, dimensions=dimensions)

@@ -16,7 +16,7 @@ from dataclasses import dataclass
 from ...errors import DesignError, Finding
 from ...section import Section
 from ..path import Bend, BendPath, Straight
-from .base import ShapeSpec, TunedValue, gap_and_offset
+from .base import Dimension, ShapeSpec, TunedValue, gap_and_offset
 from .polygon import polygon_straights, rounded_polygon, setbacks
 
 NAME = "delta-loop"
@@ -31,6 +31,7 @@ class Params:
     feed_gap_mm: float
     feed_offset_mm: float = 0.0
     feed: str = "base"
+    side_given: bool = False  # the design gave `side` (equilateral), not base and legs
 
     @property
     def base_angle(self) -> float:
@@ -59,7 +60,7 @@ def read(sec: Section) -> Params:
     feed = sec.string("feed", "base", choices=("base", "apex"))
     if feed == "apex" and offset:
         raise DesignError("an apex feed has no offset", field=sec.field("feed_offset"))
-    return Params(base, legs, r, gap, offset, feed)
+    return Params(base, legs, r, gap, offset, feed, sec.has("side"))
 
 
 def _turns(p: Params) -> tuple[float, float]:
@@ -126,5 +127,17 @@ def tuned_keys(p: Params) -> dict[str, TunedValue]:
     return out
 
 
+def dimensions(p: Params, d: float) -> tuple[Dimension, ...]:
+    """The base below the triangle and a leg beside it (or the one side of an
+    equilateral triangle), between the sharp corners."""
+    b, h = p.base_mm / 2, p.height
+    base = ((-b, 0.0, 0.0), (b, 0.0, 0.0), (0.0, -1.0, 0.0))
+    if p.side_given:
+        return (Dimension("side", p.base_mm, *base),)
+    n = math.hypot(h, b)
+    return (Dimension("base", p.base_mm, *base),
+            Dimension("legs", p.legs_mm, (b, 0.0, 0.0), (0.0, h, 0.0), (h / n, b / n, 0.0)))
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 tuned_keys)
+                 tuned_keys, dimensions=dimensions)

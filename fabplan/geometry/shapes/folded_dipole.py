@@ -18,6 +18,7 @@ from ...errors import DesignError, Finding
 from ...section import Section
 from ..path import Bend, BendPath, Piece, Straight
 from .base import (
+    Dimension,
     ParallelEnds,
     ShapeSpec,
     TunedValue,
@@ -138,10 +139,27 @@ def tuned_keys(p: Params) -> dict[str, TunedValue]:
     return {p.length_kind: ("length", p.length_mm)}
 
 
+def dimensions(p: Params, d: float) -> tuple[Dimension, ...]:
+    """The length the user gave (above the unbroken side) and the spacing
+    (between the sides, away from the feed gap)."""
+    c = p.centre_spacing(d)
+    if p.length_kind == "side":
+        half, y = p.length_mm / 2, c / 2
+    else:  # tip to tip, inside or outside, on the element's long axis
+        half, y = p.length_mm / 2, 0.0
+    length = Dimension(p.length_kind, p.length_mm, (-half, y, 0.0), (half, y, 0.0),
+                       (0.0, 1.0, 0.0))
+    x = p.side(d) / 4 * (-1.0 if p.feed_offset_mm >= 0 else 1.0)
+    inner = d / 2 if p.spacing_kind == "spacing" else 0.0
+    spacing = Dimension(p.spacing_kind, p.spacing_mm, (x, -c / 2 + inner, 0.0),
+                        (x, c / 2 - inner, 0.0))
+    return (length, spacing)
+
+
 PARALLEL_ENDS = ParallelEnds(
     centre_spacing=lambda p, d: p.centre_spacing(d),
     is_round=lambda p: p.end_style == "round",
     squared=lambda p, r: dataclasses.replace(p, end_style="square", bend_radius_mm=r))
 
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 tuned_keys, PARALLEL_ENDS)
+                 tuned_keys, PARALLEL_ENDS, dimensions=dimensions)

@@ -14,7 +14,7 @@ from typing import Literal
 from ...errors import Finding
 from ...section import Section
 from ..path import Bend, BendPath, Piece, Straight
-from .base import ParallelEnds, ShapeSpec, TunedValue, centre_to_centre, spacing_centre
+from .base import Dimension, ParallelEnds, ShapeSpec, TunedValue, centre_to_centre, spacing_centre
 
 NAME = "hairpin"
 SUMMARY = "two parallel legs joined by a 180-degree bend (or two 90-degree bends)"
@@ -86,10 +86,20 @@ def tuned_keys(p: Params) -> dict[str, TunedValue]:
     return {"leg": ("length", p.leg_mm)}
 
 
+def dimensions(p: Params, d: float) -> tuple[Dimension, ...]:
+    """The leg (above the upper leg) and the spacing (between the legs)."""
+    c = p.centre_spacing(d)
+    inner = d / 2 if p.spacing_kind == "spacing" else 0.0
+    return (Dimension("leg", p.leg_mm, (-p.leg_mm, c / 2, 0.0), (0.0, c / 2, 0.0),
+                      (0.0, 1.0, 0.0)),
+            Dimension(p.spacing_kind, p.spacing_mm, (-p.leg_mm / 2, -c / 2 + inner, 0.0),
+                      (-p.leg_mm / 2, c / 2 - inner, 0.0)))
+
+
 PARALLEL_ENDS = ParallelEnds(
     centre_spacing=lambda p, d: p.centre_spacing(d),
     is_round=lambda p: p.end_style == "round",
     squared=lambda p, r: dataclasses.replace(p, end_style="square", bend_radius_mm=r))
 
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 tuned_keys, PARALLEL_ENDS)
+                 tuned_keys, PARALLEL_ENDS, dimensions=dimensions)

@@ -13,7 +13,7 @@ from dataclasses import dataclass
 from ...errors import DesignError, Finding
 from ...section import Section
 from ..path import BendPath
-from .base import ShapeSpec, TunedValue, gap_and_offset
+from .base import Dimension, ShapeSpec, TunedValue, gap_and_offset
 from .polygon import polygon_straights, rounded_polygon
 
 NAME = "rect-loop"
@@ -30,6 +30,7 @@ class Params:
     feed_gap_mm: float
     feed_offset_mm: float = 0.0
     feed_side: str = "bottom"
+    side_given: bool = False  # the design gave `side` (a square), not width and height
 
     def sides(self) -> list[float]:
         w, h = self.width_mm, self.height_mm
@@ -48,7 +49,7 @@ def read(sec: Section) -> Params:
     r = sec.length("corner_radius")
     gap, offset = gap_and_offset(sec)
     side = sec.string("feed_side", "bottom", choices=_SIDES)
-    return Params(w, h, r, gap, offset, side)
+    return Params(w, h, r, gap, offset, side, sec.has("side"))
 
 
 def build(p: Params, d: float) -> BendPath:
@@ -99,5 +100,16 @@ def tuned_keys(p: Params) -> dict[str, TunedValue]:
     return out
 
 
+def dimensions(p: Params, d: float) -> tuple[Dimension, ...]:
+    """Centreline width above the loop and height beside it (or the one side of
+    a square), between the sharp corners the rounded ones cut off."""
+    w, h = p.width_mm / 2, p.height_mm / 2
+    top = ((-w, h, 0.0), (w, h, 0.0), (0.0, 1.0, 0.0))
+    if p.side_given:
+        return (Dimension("side", p.width_mm, *top),)
+    return (Dimension("width", p.width_mm, *top),
+            Dimension("height", p.height_mm, (w, -h, 0.0), (w, h, 0.0), (1.0, 0.0, 0.0)))
+
+
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 tuned_keys)
+                 tuned_keys, dimensions=dimensions)

@@ -15,7 +15,7 @@ from dataclasses import dataclass
 from ...errors import Finding
 from ...section import Section
 from ..path import BendPath, Straight
-from .base import ElementGeometry, End, Gap, PieceGeometry, ShapeSpec, TunedValue
+from .base import Dimension, ElementGeometry, End, Gap, PieceGeometry, ShapeSpec, TunedValue
 
 NAME = "straight"
 SUMMARY = "a straight rod or tube, whole or split at a centre feed gap (beam elements)"
@@ -72,7 +72,14 @@ def tuned_keys(p: Params) -> dict[str, TunedValue]:
     return {"length": ("length", p.length_mm)}
 
 
+def dimensions(p: Params, d: float) -> tuple[Dimension, ...]:
+    """The tip-to-tip length, above the element."""
+    half = p.length_mm / 2
+    return (Dimension("length", p.length_mm, (-half, 0.0, 0.0), (half, 0.0, 0.0),
+                      (0.0, 1.0, 0.0)),)
+
+
 KEYS = ("length", "feed_gap")
 
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
-                 tuned_keys, geometry=geometry)
+                 tuned_keys, geometry=geometry, dimensions=dimensions)

@@ -5,16 +5,30 @@ from __future__ import annotations
 from typing import Any
 
 from ...plan import Plan
-from ...units import format_inches, format_mm
+from ...units import LengthUnit, format_drawing_length, format_inches, format_mm
 from ..fullscale.papers import PAPERS, PT_PER_MM
 
-__all__ = ["Context", "esc"]
+__all__ = ["Context", "esc", "default_paper", "short_name", "NAME_LIMIT"]
+
+NAME_LIMIT = 60  # characters of a name shown in a table cell or a drawing
+
+
+def default_paper(units: LengthUnit) -> str:
+    """The build sheet's paper when none is chosen: Letter for a shop that works
+    in inches (North America), A4 for one in millimetres."""
+    return "letter" if units == "in" else "a4"
+
+
+def short_name(name: str, limit: int = NAME_LIMIT) -> str:
+    """A name cut to `limit` characters (with an ellipsis) for a table or drawing;
+    the element's heading shows it whole."""
+    return name if len(name) <= limit else name[:limit - 1].rstrip() + "\u2026"
 
 
 class Context:
     """Styles and formatting shared by the section builders."""
 
-    def __init__(self, plan: Plan, paper: str) -> None:
+    def __init__(self, plan: Plan, paper: str, paper_chosen: bool = True) -> None:
         from reportlab.lib import colors
         from reportlab.lib.styles import ParagraphStyle, getSampleStyleSheet
 
@@ -22,6 +36,7 @@ class Context:
         self.den = plan.design.shop.fraction
         self.unit = plan.design.shop.units
         self.paper = paper
+        self.paper_chosen = paper_chosen
         ss = getSampleStyleSheet()
         self.colors = colors
         self.h1 = ParagraphStyle("h1", parent=ss["Heading1"], fontSize=15, leading=18,
@@ -49,6 +64,18 @@ class Context:
         if self.unit == "in":
             return f"{format_inches(mm, self.den)} ({format_mm(mm)})"
         return f"{format_mm(mm)} ({format_inches(mm, self.den)})"
+
+    @property
+    def lengths_note(self) -> str:
+        """How a caption says its lengths are given."""
+        if self.unit == "in":
+            return "Lengths in inches (tape measure) first, millimetres in brackets"
+        return "Lengths in millimetres first, inches (tape measure) in brackets"
+
+    def size(self, mm: float) -> str:
+        """A small size (wall, strip, pitch) in both units, the shop's first, to
+        0.001 in or 0.01 mm: `0.058 in (1.47 mm)`."""
+        return format_drawing_length(mm, self.unit)
 
     def L2(self, mm: float) -> Any:
         """Both units on two lines of a right-aligned table cell."""
@@ -86,7 +113,8 @@ class Context:
                   for h, a in zip(head, align)]]
         for row in rows:
             cells.append([cell(c, a, w) for c, a, w in zip(row, align, room)])
-        t = Table(cells, colWidths=col_w, repeatRows=1, hAlign="LEFT")
+        # rows taller than a page (long names) split across pages instead of failing
+        t = Table(cells, colWidths=col_w, repeatRows=1, hAlign="LEFT", splitInRow=1)
         t.setStyle(TableStyle([
             ("GRID", (0, 0), (-1, -1), 0.4, self.colors.Color(0.6, 0.6, 0.6)),
             ("BACKGROUND", (0, 0), (-1, 0), self.colors.Color(0.88, 0.88, 0.88)),

@@ -3,22 +3,18 @@ of stock its marks, bend table, bending steps, drawing to scale and jig formers.
 
 from __future__ import annotations
 
-import math
 from pathlib import Path
 from typing import Any
 
 from ... import __version__
 from ...lengths.records import BendRow
 from ...plan import ElementPlan, PiecePlan
-from ...units import format_inches, format_mm, format_money, format_number
-from ..fullscale.geometry import mark_ids, merge_labels, piece_drawing, prim_points, side_text
-from ..fullscale.papers import PT_PER_MM
-from .context import Context
+from ...units import format_angle, format_inches, format_mm, format_money, format_number
+from ..fullscale.geometry import mark_ids
+from .context import Context, short_name
+from .drawings import DRAWING_SCALES, assembly, drawing
 
 __all__ = ["title", "stock", "cut_list", "element", "DRAWING_SCALES"]
-
-# preferred drawing scales (1:n), smallest reduction first
-DRAWING_SCALES = (1, 2, 2.5, 4, 5, 10, 20, 25, 50, 100)
 
 
 def title(ctx: Context) -> list[Any]:
@@ -32,7 +28,8 @@ def title(ctx: Context) -> list[Any]:
     rows = [["Project", d.project, "", ""],
             ["Design file", Path(d.source).name, "Made by", f"fabplan {__version__}"],
             ["Elements", f"{len(plan.elements)} kind(s), {total} piece(s)", "Shop units", units],
-            ["Stock", plan.stock.description, "Saw kerf", ctx.L(d.shop.kerf_mm)]]
+            ["Stock", plan.stock.description, "Saw kerf", ctx.L(d.shop.kerf_mm)],
+            ["Paper", _paper_text(ctx), "", ""]]
     if d.notes:
         rows.insert(1, ["Notes", d.notes, "", ""])
     out = [ctx.p(f"Build sheet: {d.project}", ctx.h1)]
@@ -60,15 +57,25 @@ def title(ctx: Context) -> list[Any]:
     return out
 
 
+def _paper_text(ctx: Context) -> str:
+    name = ctx.paper.upper() if ctx.paper == "a4" else ctx.paper.title()
+    if ctx.paper_chosen:
+        return f"{name}, as chosen (--paper); print at 100 % (actual size)"
+    other = "a4" if ctx.paper == "letter" else "letter"
+    shop = "inches" if ctx.unit == "in" else "millimetres"
+    return (f"{name}: the default for a shop in {shop} (Letter for inches, A4 for "
+            f"millimetres; --paper {other} for the other); print at 100 % (actual size)")
+
+
 def stock(ctx: Context) -> list[Any]:
     s = ctx.plan.stock
     prof = s.profile
     if prof.kind == "round":
         size = f"round, diameter {ctx.L(prof.diameter_mm)}"
     elif prof.kind == "tube":
-        size = f"tube, outside diameter {ctx.L(prof.od_mm)}, wall {format_mm(prof.wall_mm, 2)}"
+        size = f"tube, outside diameter {ctx.L(prof.od_mm)}, wall {ctx.size(prof.wall_mm)}"
     else:
-        size = f"strip {format_mm(prof.width_mm, 2)} x {format_mm(prof.thickness_mm, 2)}"
+        size = f"strip {ctx.size(prof.width_mm)} x {ctx.size(prof.thickness_mm)}"
     m = ctx.plan.design.stock.material
     rows = [["Section", size, s.source],
             ["Material", s.material_name, s.material_source],
@@ -103,15 +110,16 @@ def cut_list(ctx: Context) -> list[Any]:
             g = e.feed_gap_mm if len(e.pieces) == 1 else p.gap_mm
             gap = "-" if g is None else ctx.L2(g)
             name = e.piece_name(p)
-            rows.append([name, str(e.quantity), ctx.L2(p.developed_length_mm), ctx.L2(p.trim_mm),
-                         ctx.L2(p.cut_length_mm), gap, f"{p.mass_kg * 1000:.1f}",
+            rows.append([short_name(name), str(e.quantity), ctx.L2(p.developed_length_mm),
+                         ctx.L2(p.trim_mm), ctx.L2(p.cut_length_mm), gap,
+                         f"{p.mass_kg * 1000:.1f}",
                          _stock_piece(ctx, name)])
     out = [ctx.p("Cut list", ctx.h2)]
     out += ctx.table(["element", "qty", "developed length", "trim per end", "cut length",
                       "feed gap (not in length)", "mass per piece g", "from stock"], rows,
                      [0.2, 0.05, 0.12, 0.11, 0.12, 0.12, 0.09, 0.19], "lrrrrrrl",
-                     caption="Lengths in inches (tape measure) and millimetres; mass in grams. "
-                             "Cut length = developed length + trim at both ends.")
+                     caption=f"{ctx.lengths_note}; mass in grams. Cut length = developed "
+                             "length + trim at both ends.")
     return out
 
 
@@ -138,41 +146,88 @@ def _marks(ctx: Context, e: PiecePlan) -> list[Any]:
 
 
 def _bend_table(ctx: Context, e: PiecePlan) -> list[Any]:
+    if not e.bends:
+        return [ctx.p("Bend table", ctx.h3), ctx.p("No bends: the piece stays straight.")]
     rows = []
     pitch = any(b.pitch_mm for b in e.bends)
     for b in e.bends:
-        row = [str(b.index), ctx.L(b.straight_before_mm), f"{b.angle_deg:g}",
-               f"{b.rotation_deg:g}", ctx.L(b.centreline_radius_mm), ctx.L(b.arc_length_mm)]
+        row = [str(b.index), ctx.L(b.straight_before_mm), format_angle(b.angle_deg),
+               format_angle(b.rotation_deg), ctx.L(b.centreline_radius_mm),
+               ctx.L(b.arc_length_mm)]
         if pitch:
-            row.append(format_mm(b.pitch_mm))
+            row.append(ctx.L(b.pitch_mm) if b.pitch_mm else "-")
         rows.append(row)
     head = ["bend", "straight before", "angle deg", "rotation deg", "centreline radius",
             "arc length (neutral axis)"]
     widths = [0.07, 0.2, 0.1, 0.11, 0.2, 0.2]
     if pitch:
-        head.append("pitch per turn mm")
+        head.append("pitch per turn")
         widths = [w * 0.9 for w in widths] + [0.1]
     out = [ctx.p("Bend table", ctx.h3)]
     out += ctx.table(head, rows, widths, "lrrrrrr"[:len(head)],
-                     caption="Trade order from end A; lengths in inches and millimetres, "
-                             "angles in degrees. Rotation turns the stock about its own axis "
-                             "before the bend (0 = same plane, same way as the last bend). "
+                     caption=f"Trade order from end A. {ctx.lengths_note}; angles in "
+                             "degrees. Rotation turns the stock about its own axis before the "
+                             "bend (0 = same plane, same way as the bend before it in this "
+                             "table). "
                              f"After the last bend: {ctx.L(e.tail_straight_mm)} straight to "
                              "end B.")
     return out
 
 
-def _which_way(b: BendRow) -> str:
-    """The bend's direction against the bend before it in trade order."""
-    r = b.rotation_deg % 360
-    if b.index == 1:
-        return "in the drawing's plane (the first bend from end A)"
-    prev = b.index - 1
-    if abs(r) < 1e-6 or abs(r - 360) < 1e-6:
-        return f"same plane, same way as bend {prev}"
-    if abs(r - 180) < 1e-6:
-        return f"same plane, the opposite way to bend {prev}"
-    return f"turn the stock {b.rotation_deg:g} deg about its axis from bend {prev}'s plane"
+def _which_way(bends: dict[int, BendRow], i: int, prev: int | None, step: int) -> str:
+    """Bend `i`'s direction against the bend made in the step before (`prev`,
+    already made), from the rotations of the bend planes between them."""
+    if prev is None:
+        if len(bends) == 1:
+            return "the only bend"
+        return "the first bend made: it sets the plane; bend it the way the drawing shows"
+    lo, hi = sorted((prev, i))
+    turn = sum(bends[j].rotation_deg for j in range(lo + 1, hi + 1))
+    if i < prev:  # counted back from the bend already made
+        turn = -turn
+    r = turn % 360
+    made = f"bend {prev} (step {step - 1})"
+    if min(r, 360 - r) < 0.05:
+        return f"same plane, same way as {made}"
+    if abs(r - 180) < 0.05:
+        return f"same plane, the opposite way to {made}"
+    r = r if r <= 180 else r - 360
+    sense = "clockwise" if r > 0 else "anticlockwise"
+    return (f"turn the stock {format_angle(abs(r))} deg {sense} (looking from end A towards "
+            f"end B) from the plane of {made}")
+
+
+def _side(ctx: Context, from_centre_mm: float) -> str:
+    """`A 7 23/32" (195.9 mm)` in the shop's unit first: which half, how far from the centre."""
+    if abs(from_centre_mm) < 1e-9:
+        return "centre"
+    return f"{'A' if from_centre_mm < 0 else 'B'} {ctx.L(abs(from_centre_mm))}"
+
+
+def _helix_how_far(ctx: Context, b: BendRow, e: PiecePlan) -> tuple[str, str, str]:
+    """A helix's step: the mandrel, the turns to wind and the pitch guide; the
+    angle only as a reference."""
+    f = e.forming
+    turns = b.angle_deg / 360
+    if f is None:
+        return (f"mandrel for a {ctx.L(2 * b.centreline_radius_mm)} centreline diameter, "
+                "smaller by the springback (make a test coil)",
+                f"wind {format_angle(turns)} turns round the mandrel",
+                f"{format_angle(turns)} turns at {ctx.L(b.pitch_mm)} pitch; the angle "
+                f"({format_angle(b.angle_deg)} deg) is for reference only")
+    bf = f.bend(b.index)
+    held = bf.overbend_deg / 360
+    tool = (f"winding mandrel {ctx.L(2 * bf.former_radius_mm)} diameter, with the pitch "
+            f"guide ({ctx.L(b.pitch_mm)} from notch to notch)")
+    way = ("wind the stock round the mandrel, laying each turn in the next notch of the "
+           "pitch guide")
+    how = (f"follow the turns: about {format_angle(held)} turns while held on the mandrel; "
+           f"released, it opens to {format_angle(turns)} turns of "
+           f"{ctx.L(2 * b.centreline_radius_mm)} centreline diameter. Check the pitch against "
+           f"the guide ({ctx.L(b.pitch_mm)}) and set it by hand. The angle "
+           f"({format_angle(bf.overbend_deg)} deg held, {format_angle(b.angle_deg)} deg "
+           "released) is for reference only")
+    return tool, way, how
 
 
 def _steps(ctx: Context, e: PiecePlan) -> list[Any]:
@@ -195,36 +250,47 @@ def _steps(ctx: Context, e: PiecePlan) -> list[Any]:
         for t in f.tool_marks:
             tools[t.bend_index] = t
     rows = []
+    prev: int | None = None
     for step, i in enumerate(order, 1):
         b = bends[i]
         where = f"{mark_of(i, 'start')} to {mark_of(i, 'end')}"
+        way = _which_way(bends, i, prev, step)
+        if b.pitch_mm:
+            tool, way, how_far = _helix_how_far(ctx, b, e)
+            rows.append([str(step), f"bend {i}", where, tool, way, how_far])
+            prev = i
+            continue
         if i in formers:
             fm = formers[i]
-            tool = f"former {fm.label} ({format_mm(2 * fm.radius_mm)} dia)"
+            tool = f"former {fm.label} ({ctx.L(2 * fm.radius_mm)} dia)"
         elif i in tools:
             t = tools[i]
-            tool = f"bender: pencil mark at {side_text(t.from_centre_mm, ctx.den)} on " \
-                   f"the tool's {t.tool_reference}"
+            tool = f"bender: pencil mark at {_side(ctx, t.from_centre_mm)} on the tool's " \
+                   f"{t.tool_reference}"
         elif f is not None:
-            tool = f"{f.bend(i).method}, radius {format_mm(f.bend(i).former_radius_mm)}"
+            tool = f"{f.bend(i).method}, radius {ctx.L(f.bend(i).former_radius_mm)}"
         else:
             tool = f"former or bender with {ctx.L(b.centreline_radius_mm)} centreline radius"
         if f is not None:
             bf = f.bend(i)
-            how_far = (f"bend to {bf.overbend_deg:.1f} deg while held "
-                       f"(+{bf.springback_deg:.1f} springback); {b.angle_deg:g} deg after "
-                       "release")
+            how_far = (f"bend to {format_angle(bf.overbend_deg)} deg while held "
+                       f"(+{format_angle(bf.springback_deg)} springback); "
+                       f"{format_angle(b.angle_deg)} deg after release")
         else:
-            how_far = f"{b.angle_deg:g} deg (allow for springback: check with a test bend)"
-        rows.append([str(step), f"bend {i}", where, tool, _which_way(b), how_far])
+            how_far = (f"{format_angle(b.angle_deg)} deg (allow for springback: check with a "
+                       "test bend)")
+        rows.append([str(step), f"bend {i}", where, tool, way, how_far])
+        prev = i
     out = [ctx.p("Bending steps", ctx.h3)]
     if not rows:
         return out + [ctx.p("No bends: cut to length and mark.")]
     out += ctx.table(["step", "bend", "between marks", "former or tool", "which way",
-                      "how far (degrees)"], rows, [0.06, 0.08, 0.13, 0.27, 0.2, 0.26],
+                      "how far"], rows, [0.06, 0.08, 0.13, 0.27, 0.2, 0.26],
                      "llllll",
-                     caption="Angles in degrees; the bend lies between the two marks (its "
-                             "start and end on the straight stock).")
+                     caption=f"In the order to make them. Angles in degrees. "
+                             f"{ctx.lengths_note}. The bend lies between the two marks (its "
+                             "start and end on the straight stock); which way is against the "
+                             "bend made in the step before.")
     if f is not None and f.splay_if_ignored_mm:
         out.append(ctx.p(f"If springback is ignored the legs open by about "
                          f"{ctx.L(f.splay_if_ignored_mm)}.", ctx.small))
@@ -233,151 +299,25 @@ def _steps(ctx: Context, e: PiecePlan) -> list[Any]:
     return out
 
 
-def _scale_for(width_mm: float, height_mm: float, room_w: float, room_h: float) -> float:
-    for s in DRAWING_SCALES:
-        if width_mm / s <= room_w and height_mm / s <= room_h:
-            return s
-    return DRAWING_SCALES[-1]
-
-
-def _drawing(ctx: Context, e: PiecePlan) -> list[Any]:
-    """The element to scale, with its straight runs, radii, marks and formers."""
-    from reportlab.graphics.shapes import Circle, Drawing, Line, PolyLine, String
-    from reportlab.lib import colors
-
-    geo = piece_drawing(e)
-    x0, y0, x1, y1 = geo.bbox
-    f = e.forming
-    if f is not None:
-        for fm in f.formers:
-            cx, cy = fm.centre_mm
-            x0, y0 = min(x0, cx - fm.radius_mm), min(y0, cy - fm.radius_mm)
-            x1, y1 = max(x1, cx + fm.radius_mm), max(y1, cy + fm.radius_mm)
-    pad = 16.0  # mm of paper round the drawing for labels
-    room_w = ctx.frame_w / PT_PER_MM - 2 * pad
-    room_h = 95.0
-    s = _scale_for(x1 - x0, y1 - y0, room_w, room_h)
-    k = PT_PER_MM / s  # pt per model mm
-    w = ctx.frame_w
-    h = (y1 - y0) * k + 2 * pad * PT_PER_MM + 14
-    ox = (w - (x1 - x0) * k) / 2 - x0 * k
-    oy = pad * PT_PER_MM + 14 - y0 * k
-
-    def P(x: float, y: float) -> tuple[float, float]:
-        return ox + x * k, oy + y * k
-
-    d = Drawing(w, h)
-    grey = colors.Color(0.45, 0.45, 0.45)
-    for prim in geo.centreline:
-        pts = prim_points(prim, 36)
-        if geo.planar:
-            d.add(PolyLine([c for p in pts for c in P(*p)], strokeWidth=0.4,
-                           strokeColor=grey, strokeDashArray=[5, 2, 1, 2]))
-        else:
-            d.add(PolyLine([c for p in pts for c in P(*p)], strokeWidth=0.7))
-    for prim in geo.outline:
-        pts = prim_points(prim, 36)
-        d.add(PolyLine([c for p in pts for c in P(*p)], strokeWidth=0.8))
-    # straight runs and radii, labelled outside the element
-    cx_mid, cy_mid = (x0 + x1) / 2, (y0 + y1) / 2
-    arcs = iter(e.bends)
-    for prim in geo.centreline:
-        if prim[0] == "L":
-            (ax, ay), (bx, by) = prim[1], prim[2]
-            length = math.hypot(bx - ax, by - ay)
-            if length * k < 30:
-                continue
-            mx, my = (ax + bx) / 2, (ay + by) / 2
-            nx, ny = -(by - ay) / length, (bx - ax) / length
-            if (mx - cx_mid) * nx + (my - cy_mid) * ny < 0:
-                nx, ny = -nx, -ny
-            px, py = P(mx, my)
-            off = e.conductor_diameter_mm / 2 * k + 19  # beyond the mark labels
-            d.add(String(px + nx * off, py + ny * off - 3, ctx.L(length), fontSize=7,
-                         textAnchor="middle"))
-        elif prim[0] == "A":
-            b = next(arcs)
-            (cx, cy), r, start, extent = prim[1:]
-            mid = math.radians(start + extent / 2)
-            px, py = P(cx + r * math.cos(mid), cy + r * math.sin(mid))
-            off = e.conductor_diameter_mm / 2 * k + 17  # beyond the mark labels
-            c, sn = math.cos(mid), math.sin(mid)
-            anchor = "start" if c > 0.3 else ("end" if c < -0.3 else "middle")
-            tx, ty = px + c * off, py + sn * off - 3
-            lines = [f"bend {b.index}: {b.angle_deg:g} deg",
-                     f"R {ctx.L(b.centreline_radius_mm)}"]
-            if sn < -0.3:
-                ty -= 8
-            for n, text in enumerate(lines):
-                if anchor != "middle":
-                    dy = 4 - 8 * n  # beside the bend: centred on its middle
-                elif sn > 0:
-                    dy = 3 + 8 * (1 - n)  # above it
-                else:
-                    dy = -8 * n  # below it
-                d.add(String(tx, ty + dy, text, fontSize=7, textAnchor=anchor))
-    if geo.planar:
-        red = colors.Color(0.75, 0.1, 0.1)
-        labels = []
-        for mid, _m, (px_, py_), (tx, ty) in geo.marks:
-            ext = e.conductor_diameter_mm / 2 * k + 4
-            px, py = P(px_, py_)
-            d.add(Line(px - ty * ext, py + tx * ext, px + ty * ext, py - tx * ext,
-                       strokeWidth=0.6, strokeColor=colors.Color(0.75, 0.1, 0.1)))
-            # label on the side of the conductor away from the middle of the drawing
-            nx, ny = -ty, tx
-            if (px_ - cx_mid) * nx + (py_ - cy_mid) * ny < 0:
-                nx, ny = -nx, -ny
-            anchor = "start" if nx > 0.7 else ("end" if nx < -0.7 else "middle")
-            labels.append((mid, px + nx * (ext + 3), py + ny * (ext + 5) - 2.5, anchor))
-        for text, x, y, anchor in merge_labels(labels, 14.0):
-            d.add(String(x, y, text, fontSize=6, textAnchor=anchor, fillColor=red))
-    if f is not None:
-        for fm in f.formers:
-            px, py = P(*fm.centre_mm)
-            d.add(Circle(px, py, fm.radius_mm * k, strokeWidth=0.5, fillColor=None,
-                         strokeColor=colors.Color(0.1, 0.3, 0.8), strokeDashArray=[2, 1.5]))
-            d.add(String(px, py - 2.5, fm.label, fontSize=6.5, textAnchor="middle",
-                         fillColor=colors.Color(0.1, 0.3, 0.8)))
-    # scale bar: 100 mm (or 10 mm at 1:1 too) drawn at the drawing's scale
-    bar_mm = 100.0 if s >= 2 else 50.0
-    d.add(Line(4, 6, 4 + bar_mm * k, 6, strokeWidth=1.5))
-    d.add(String(8 + bar_mm * k, 3.5, f"{bar_mm:g} mm at this scale", fontSize=6.5))
-    scale_txt = "1:1" if s == 1 else f"1:{s:g}"
-    d.add(String(w, 3.5, f"Scale {scale_txt} when printed at 100 % on {ctx.paper.upper()}"
-                 if ctx.paper == "a4" else
-                 f"Scale {scale_txt} when printed at 100 % on {ctx.paper.title()}",
-                 fontSize=7, textAnchor="end"))
-    if not geo.planar:
-        return [ctx.p("Drawing to scale (projected)", ctx.h3),
-                ctx.p("The centreline seen square to the drawing's x-y plane. The element is "
-                      "not flat, so lengths along the stock are not true here: mark from the "
-                      "marks table or the full-scale template's marking strip.", ctx.small), d]
-    return [ctx.p("Drawing to scale", ctx.h3),
-            ctx.p("Outline solid, centreline dash-dot; red ticks are the marks (ids as in the "
-                  "marks table)" + ("; blue dashed circles are the jig's formers."
-                                    if f is not None and f.formers else "."), ctx.small), d]
-
-
 def _jig(ctx: Context, e: PiecePlan) -> list[Any]:
     f = e.forming
     if f is None or not f.formers:
         return []
     rows = [[fm.label, ", ".join(str(i) for i in fm.bend_indices), ctx.L(2 * fm.radius_mm),
              f"{format_number(fm.centre_mm[0])}, {format_number(fm.centre_mm[1])}",
-             f"{fm.wrap_deg:.1f}"]
+             format_angle(fm.wrap_deg)]
             for fm in f.formers]
     out = [ctx.p("Jig: formers", ctx.h3)]
     out += ctx.table(["former", "bends", "diameter", "centre x, y mm", "wrap deg"], rows,
                      [0.1, 0.12, 0.3, 0.28, 0.12], "llrrr",
-                     caption="Former diameters in inches and millimetres (springback "
-                             "compensated), centres in mm in the drawing's plane, wrap in "
-                             "degrees.")
+                     caption=f"{ctx.lengths_note}. Former diameters are springback "
+                             "compensated; centres are the jig drawing's coordinates in mm; "
+                             "wrap in degrees.")
     if f.former_spacing_mm:
         pairs = [[f"{a.label} to {b.label}", ctx.L(g)]
                  for a, b, g in zip(f.formers, f.formers[1:], f.former_spacing_mm)]
         out += ctx.table(["formers", "centre-to-centre spacing"], pairs, [0.2, 0.4], "lr",
-                         caption="Spacing in inches and millimetres.")
+                         caption=f"{ctx.lengths_note}.")
     return out
 
 
@@ -397,8 +337,9 @@ def element(ctx: Context, e: ElementPlan) -> list[Any]:
         out += _marks(ctx, p)
         out += _bend_table(ctx, p)
         out += _steps(ctx, p)
-        out += _drawing(ctx, p)
+        out += drawing(ctx, e, p)
         out += _jig(ctx, p)
+    out += assembly(ctx, e)
     est = e.estimate
     if est is not None:
         cost = ""

@@ -19,24 +19,28 @@ from ...errors import DesignError
 from ...plan import Plan
 from ..fullscale.papers import PT_PER_MM, SHEET_PAPERS, paper_size
 from . import core
-from .context import Context
+from .context import Context, default_paper
 from .electrical import electrical
 from .estimate import order
 from .findings import findings, safety
 
-__all__ = ["sheet_pdf"]
+__all__ = ["sheet_pdf", "default_paper"]
 
 
-def sheet_pdf(plan: Plan, paper: str = "a4") -> bytes:
-    """The build sheet of `plan` as PDF bytes (A4 or Letter)."""
+def sheet_pdf(plan: Plan, paper: str | None = None) -> bytes:
+    """The build sheet of `plan` as PDF bytes, on "a4" or "letter"; without a
+    paper, the shop's default (`default_paper`: Letter for inches, A4 for mm),
+    which the title block then names as the default."""
     from reportlab.pdfgen import canvas
     from reportlab.platypus import KeepTogether, SimpleDocTemplate
 
+    chosen = paper is not None
+    paper = paper if paper is not None else default_paper(plan.design.shop.units)
     if paper not in SHEET_PAPERS:
         paper_size(paper)  # unknown paper: its own message
         raise DesignError("the build sheet prints on a4 or letter", field="--paper",
                           value=paper)
-    ctx = Context(plan, paper)
+    ctx = Context(plan, paper, chosen)
     story: list[Any] = []
     story += core.title(ctx)
     story += core.stock(ctx)

@@ -4,16 +4,14 @@ from __future__ import annotations
 
 from typing import Any
 
-from ...units import format_inches, format_mm, format_money
-from .context import Context, esc
+from ...units import format_money
+from .context import Context, short_name
 
 __all__ = ["order"]
 
 
 def order(ctx: Context) -> list[Any]:
     """Bill of material and cutting plan from the estimate stage."""
-    from reportlab.platypus import Paragraph
-
     o = ctx.plan.order
     if o is None:
         return []
@@ -24,10 +22,10 @@ def order(ctx: Context) -> list[Any]:
         out.append(ctx.p(f"No stock offered in the design: {o.cut_count} cut(s), "
                          f"{ctx.L(o.cut_length_mm)} of stock in all before kerf and ends. Add "
                          "[purchase] offers for a buying and cutting plan."))
-    rows = [[b.offer, ctx.L(b.length_mm), str(b.count), format_money(b.piece_cost, cur),
+    rows = [[short_name(b.offer), ctx.L(b.length_mm), str(b.count), format_money(b.piece_cost, cur),
              format_money(b.cost, cur), f"{b.weight_kg:.3f}", b.source] for b in o.buy]
     for it in o.items:
-        rows.append([it.name, "-", str(it.quantity), format_money(it.price_each, cur),
+        rows.append([short_name(it.name), "-", str(it.quantity), format_money(it.price_each, cur),
                      format_money(it.cost, cur), f"{it.weight_kg:.3f}", it.source])
     if not rows:
         return out + ctx.table(["weight", "kg"], [["elements as built",
@@ -36,9 +34,8 @@ def order(ctx: Context) -> list[Any]:
     out += ctx.table(["stock or item", "length", "qty", "each" + money_unit,
                       "cost" + money_unit, "weight kg", "source"], rows,
                      [0.2, 0.16, 0.05, 0.11, 0.11, 0.09, 0.28], "lrrrrrl",
-                     caption="Lengths in inches and millimetres, weights in kilograms, money "
-                             "in the design's currency" + ("" if cur else " (no prices given)")
-                             + ".")
+                     caption=f"{ctx.lengths_note}; weights in kilograms; money in the "
+                             "design's currency" + ("" if cur else " (no prices given)") + ".")
     totals = [["elements as built", f"{o.elements_weight_kg:.3f} kg", ""],
               ["stock bought", f"{o.stock_weight_kg:.3f} kg", format_money(o.stock_cost, cur)],
               ["other items", f"{o.items_weight_kg:.3f} kg", format_money(o.items_cost, cur)],
@@ -50,19 +47,22 @@ def order(ctx: Context) -> list[Any]:
     if not o.pieces:
         return out
     out.append(ctx.p("Cutting plan", ctx.h3))
+    # a row per cut, so that a long plan (or a long name) breaks across pages
     rows = []
     for p in o.pieces:
-        cuts = "<br/>".join(esc(f"{c.element}{' (spare)' if c.spare else ''}: "
-                                 f"{format_inches(c.length_mm, ctx.den)} "
-                                 f"({format_mm(c.length_mm)}) "
-                                 f"at {format_mm(c.start_mm)}") for c in p.cuts)
-        rows.append([str(p.index), f"{p.offer}, {ctx.L(p.length_mm)}", Paragraph(cuts, ctx.cell),
-                     ctx.L(p.remnant_mm) if p.remnant_mm > 0 else "none",
-                     f"{p.utilisation * 100:.0f}"])
-    out += ctx.table(["piece", "stock", "cuts: element: length at start from end A",
-                      "usable offcut", "used %"], rows, [0.07, 0.22, 0.43, 0.18, 0.08],
-                     "llllr",
-                     caption=f"Lengths in inches and millimetres; kerf {ctx.L(o.kerf_mm)} per "
+        head = [str(p.index), f"{short_name(p.offer)}, {ctx.L(p.length_mm)}"]
+        tail = [ctx.L2(p.remnant_mm) if p.remnant_mm > 0 else "none",
+                f"{p.utilisation * 100:.0f}"]
+        for n, c in enumerate(p.cuts):
+            cut = [f"{short_name(c.element)}{' (spare)' if c.spare else ''}",
+                   ctx.L2(c.length_mm), ctx.L2(c.start_mm)]
+            rows.append(head + cut + tail if n == 0 else ["", ""] + cut + ["", ""])
+        if not p.cuts:
+            rows.append(head + ["-", "-", "-"] + tail)
+    out += ctx.table(["piece", "stock", "cut for element", "length", "starts at (from end A)",
+                      "usable offcut", "used %"], rows,
+                     [0.06, 0.18, 0.22, 0.15, 0.15, 0.15, 0.07], "lllrrrr",
+                     caption=f"{ctx.lengths_note}; kerf {ctx.L(o.kerf_mm)} per "
                              f"cut. {o.cut_count} cuts, {o.pieces_to_buy} stock piece(s); "
                              f"plan by {o.method}"
                              + ("; proven the fewest pieces" if o.proven_optimal else "") + ".")

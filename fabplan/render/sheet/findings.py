@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from .context import Context, esc
+from .context import Context, esc, short_name
 
 __all__ = ["findings", "safety", "SAFETY", "SAFETY_FOOTNOTE"]
 
@@ -34,7 +34,8 @@ def findings(ctx: Context) -> list[Any]:
     if not ctx.plan.findings:
         return out + [ctx.p("No findings: every check passed.")]
     words = {"error": "Must fix", "warning": "Check", "info": "Note"}
-    rows = [[words.get(f.severity, f.severity), f.element or "whole design", f.message, f.code]
+    rows = [[words.get(f.severity, f.severity), short_name(f.element) if f.element
+             else "whole design", f.message, f.code]
             for f in ctx.plan.findings]
     return out + ctx.table(["what to do", "element", "finding", "code"], rows,
                            [0.1, 0.16, 0.56, 0.18], "llll")
