@@ -24,13 +24,14 @@ Where tiles overlap, an item counts for the tile on top (the tiles' "own"
 parts share out the grid), so a tile is not printed for what its neighbour
 already shows. A tile that carries nothing, or only a plain stretch of the
 strip's grey bar, of a straight line or of a former's dashed outline, is left
-out, on two conditions: both ends of every plain straight line still lie on
-printed tiles (so a straightedge has both ends to join; the strip's bar needs
-no ends, its ticks say where to mark), and the printed tiles still join one
-another through shared alignment crosses (so every distance on the assembled
-template stays true). Where they would not join, the fewest left-out tiles
-that join them are printed again, and the map says which crosses they carry
-to join their neighbours.
+out. A tile that holds where a plain straight line ends is printed when it
+lies next to a printed tile (so the line's end shows, at the cost of that one
+page; an end farther out is given by the figures, the strip's cut length and
+marks; the strip's bar needs no ends, its ticks say where to mark). The
+printed tiles must still join one another through shared alignment crosses
+(so every distance on the assembled template stays true): where they would
+not, the fewest left-out tiles that join them are printed again, and the map
+says which crosses they carry to join their neighbours.
 """
 
 from __future__ import annotations
@@ -408,11 +409,13 @@ def keep_tiles(grid: Grid, items: list[Item]) -> dict[Tile, list[Reason]]:
                 kept.setdefault(t, []).append((it.owner, it.why))
     if not kept:
         return {t: [] for t in grid.tiles()}
+    ends: dict[Tile, list[Reason]] = {}
     for it in plain:
         for x, y in it.data:  # a straightedge needs both ends of a line
             t = grid.owners((x, y, x, y))[0]
-            if t not in kept:
-                kept[t] = [(it.owner, "line end")]
+            if t not in kept and any(n in kept for n in _neighbours(t)):
+                ends.setdefault(t, [(it.owner, "line end")])
+    kept.update(ends)
     for t in joining(grid, set(kept)):
         kept[t] = [("", "join")]
     return kept
