@@ -14,7 +14,7 @@ from typing import Any
 
 from ...geometry.planar import Arc, Segment, conductor_outline, planar_centreline
 from ...lengths.records import PieceCore
-from ...units import format_inches, format_mm
+from ...units import LengthUnit, format_length
 
 __all__ = ["PieceDrawing", "piece_drawing", "mark_ids", "merge_labels", "prim_points", "bbox",
            "side_text"]
@@ -22,13 +22,13 @@ __all__ = ["PieceDrawing", "piece_drawing", "mark_ids", "merge_labels", "prim_po
 Prim = tuple[Any, ...]
 
 
-def side_text(from_centre_mm: float, den: int) -> str:
-    """`A 7 23/32" (195.9 mm)`: which half of the stock and how far from the centre."""
+def side_text(from_centre_mm: float, den: int, primary: LengthUnit = "in") -> str:
+    """`A 7 23/32" (195.9 mm)`: which half of the stock and how far from the
+    centre, in the shop's unit (`primary`) first."""
     if abs(from_centre_mm) < 1e-9:
         return "centre"
     side = "A" if from_centre_mm < 0 else "B"
-    d = abs(from_centre_mm)
-    return f"{side} {format_inches(d, den)} ({format_mm(d)})"
+    return f"{side} {format_length(abs(from_centre_mm), primary, den)}"
 
 
 @dataclass(frozen=True)
