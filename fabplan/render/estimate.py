@@ -85,6 +85,12 @@ def _electrical_summary(plan: Plan) -> list[dict[str, Any]] | None:
             "min_swr": num(s.min_swr, 4),
             "min_swr_hz": num(s.min_swr_hz, 1),
             "bandwidth_hz": {k: num(v, 1) for k, v in s.bandwidth_hz.items()},
+            "bandwidth_at_least_hz": {f"{b.level:g}": num(b.width_at_least_hz, 1)
+                                      for b in s.bands},
+            "bandwidth_beyond_sweep": {
+                f"{b.level:g}": [side for side, beyond in (("lower", b.lower_beyond_sweep),
+                                                            ("upper", b.upper_beyond_sweep))
+                                 if beyond] for b in s.bands},
             "efficiency": num(s.efficiency, 5),
             "uncertainty_frac": s.uncertainty_frac,
         })
@@ -226,7 +232,13 @@ def _bandwidth(limit: str) -> Callable[[dict[str, Any] | None], str]:
         if x is None:
             return "-"
         hz = x["bandwidth_hz"].get(limit)
-        return "not found in the sweep" if hz is None else format_frequency(hz)
+        if hz is not None:
+            return format_frequency(hz)
+        least = x["bandwidth_at_least_hz"].get(limit)
+        if least is None:
+            return "not reached"
+        beyond = " and ".join(x["bandwidth_beyond_sweep"].get(limit, []))
+        return f"at least {format_frequency(least)} ({beyond} edge beyond the sweep)"
 
     return show
 

@@ -184,8 +184,8 @@ def test_verbose_shows_the_log_at_info_and_debug(cli, write_design, swept_folded
     debug = cli("-vv", "plan", design, check_exit=0)
     assert plain.stderr == ""
     assert "fabplan: INFO: read " in info.stderr and "DEBUG" not in info.stderr
-    # the solver logs its mesh at DEBUG (fabplan/em/solver.py)
-    assert "fabplan: DEBUG: meshed" in debug.stderr and "fabplan: INFO: read " in debug.stderr
+    # the solver and the rational fit log at DEBUG (fabplan/em/solver.py, fitting.py)
+    assert "fabplan: DEBUG: " in debug.stderr and "fabplan: INFO: read " in debug.stderr
     assert plain.stdout == info.stdout == debug.stdout  # the log never mixes into the output
     # no handler is left behind on the library's logger after a run
     assert all(isinstance(h, logging.NullHandler) for h in logging.getLogger("fabplan").handlers)

@@ -129,6 +129,12 @@ def test_compare_shows_the_electrical_differences(cli, write_design):
         assert el["min_swr"] == pytest.approx(s.min_swr, abs=1e-4)
         assert el["efficiency"] == pytest.approx(s.efficiency, abs=1e-5)
         assert set(el["bandwidth_hz"]) == set(s.bandwidth_hz)
+        for band in s.bands:  # a band with an edge beyond the sweep: its least width
+            level = f"{band.level:g}"
+            assert el["bandwidth_at_least_hz"][level] == pytest.approx(
+                band.width_at_least_hz, abs=0.1)
+            assert el["bandwidth_beyond_sweep"][level] == (
+                ["lower"] * band.lower_beyond_sweep + ["upper"] * band.upper_beyond_sweep)
     (diff,) = d["electrical_differences"]
     assert diff["resonance_hz"] == pytest.approx(sweeps[1].resonance_hz - sweeps[0].resonance_hz,
                                                  abs=0.2)
@@ -144,6 +150,12 @@ def test_compare_shows_the_electrical_differences(cli, write_design):
                   "fd: efficiency"):
         assert label in out
     assert "note: fd: B against A: resonance -" in out
+    # the tube's SWR 2 band runs past the sweep's start (its lower edge beyond it)
+    (band,) = [b for b in sweeps[1].bands if b.level == 2]
+    assert band.lower_beyond_sweep and not band.upper_beyond_sweep
+    row = next(line for line in out.splitlines() if line.startswith("fd: bandwidth SWR < 2 "))
+    assert row.endswith(f"at least {band.width_at_least_hz / 1e6:.3f} MHz (lower edge beyond "
+                        "the sweep)")
     # weight and cost are still compared
     assert "weight built" in out and "total cost" in out
 
