@@ -2,9 +2,11 @@
 
 from __future__ import annotations
 
+import contextlib
 import os
 import subprocess
 import sys
+from dataclasses import dataclass
 from pathlib import Path
 
 import pytest
@@ -18,9 +20,46 @@ def example_path() -> Path:
     return EXAMPLE
 
 
+@dataclass(frozen=True)
+class CliRun:
+    """What one run of the command line gave: exit code, standard output and error apart."""
+
+    returncode: int
+    stdout: str
+    stderr: str
+    stdout_bytes: bytes
+
+
+@pytest.fixture
+def cli():
+    """Run the command line in this process (click's CliRunner: fast, no interpreter
+    start-up); returns a CliRun. `input` is standard input (text or bytes). An
+    exception the command does not turn into an exit status fails the test with
+    its traceback. Use `run_cli` for the few tests of the installed entry point."""
+    from click.testing import CliRunner
+
+    from fabplan.cli import main
+
+    def run(*args: object, input: str | bytes | None = None, cwd: Path | None = None,
+            check_exit: int | None = None) -> CliRun:
+        runner = CliRunner()
+        with contextlib.chdir(cwd or ROOT):
+            result = runner.invoke(main, [str(a) for a in args], input=input,
+                                   prog_name="fabplan", catch_exceptions=False)
+        out = CliRun(result.exit_code, result.stdout, result.stderr, result.stdout_bytes)
+        if check_exit is not None and out.returncode != check_exit:
+            raise AssertionError(f"exit {out.returncode}, expected {check_exit}\n"
+                                 f"stdout:\n{out.stdout}\nstderr:\n{out.stderr}")
+        return out
+
+    return run
+
+
 @pytest.fixture
 def run_cli():
-    """Run the installed command line in a subprocess; returns CompletedProcess."""
+    """Run the installed command line in a subprocess; returns CompletedProcess.
+    Slow (an interpreter start-up and every import per run): for the smoke tests
+    of the entry point, exit codes and start-up cost; use `cli` otherwise."""
 
     def run(*args: str, cwd: Path | None = None, check_exit: int | None = None):
         env = dict(os.environ)
@@ -314,3 +353,29 @@ def hairpin_design(purchase: str = "", *, stock: str = 'gauge = "AWG 12"\nmateri
 def hairpin():
     """A hairpin design's text, with [purchase] tables and stock of your choosing."""
     return hairpin_design
+
+
+# -- the templates' optional tables --------------------------------------------------------
+def _uncomment_optional_tables(text: str) -> str:
+    """A template with its commented optional tables switched on: from each line
+    that starts with "# [" (a commented table header) to the next line that is
+    not a comment, "# X" becomes "X" and any other comment line is dropped.
+    Lines outside those blocks (alternatives of required keys) stay as they are."""
+    import re
+
+    out: list[str] = []
+    block = False
+    for line in text.splitlines():
+        if re.match(r"# \[", line):
+            block = True
+        if block and line.startswith("#"):
+            out.append(line[2:] if line.startswith("# ") else "")
+            continue
+        block = False
+        out.append(line)
+    return "\n".join(out) + "\n"
+
+
+@pytest.fixture(scope="session")
+def uncomment_template():
+    return _uncomment_optional_tables

@@ -10,9 +10,18 @@ from importlib import resources
 from pathlib import Path
 
 import click
+from click.shell_completion import CompletionItem
 
 from ..errors import FabplanError
-from .base import EXIT_FINDINGS, design_argument, guarded, load_plan
+from .base import (
+    EXIT_FINDINGS,
+    check_output,
+    design_argument,
+    guarded,
+    load_plan,
+    output_path,
+    write_one_text,
+)
 
 __all__ = ["COMMANDS", "plan", "check", "shapes", "new", "materials", "stock"]
 
@@ -57,26 +66,30 @@ def shapes() -> None:
         click.echo(f"{name.ljust(width)}  {spec.summary}")
 
 
+def _complete_shape(ctx: click.Context, param: click.Parameter,
+                    incomplete: str) -> list[CompletionItem]:
+    """Shell completion of SHAPE: the shape names."""
+    from ..geometry.shapes import SHAPES
+
+    return [CompletionItem(name, help=spec.summary) for name, spec in SHAPES.items()
+            if name.startswith(incomplete)]
+
+
 @click.command()
-@click.argument("shape")
-@click.option("-o", "--output", type=click.Path(dir_okay=False, path_type=Path),
-              help="Write to this file instead of standard output.")
+@click.argument("shape", shell_complete=_complete_shape)
+@output_path("Write to this file instead of standard output")
 @click.option("--force", is_flag=True, help="Replace an existing file.")
 @guarded
 def new(shape: str, output: Path | None, force: bool) -> None:
-    """Write a commented design file for SHAPE."""
+    """Write a commented design file for SHAPE (`fabplan shapes` lists them)."""
     from ..geometry.shapes import SHAPES
-    from ..render.files import write_text
 
     if shape not in SHAPES:
         raise FabplanError(f"unknown shape; run `fabplan shapes` (known: {', '.join(SHAPES)})",
                            field="SHAPE", value=shape)
+    check_output(output, force)
     text = resources.files("fabplan").joinpath("templates", f"{shape}.toml").read_text("utf-8")
-    if output is None:
-        click.echo(text, nl=False)
-    else:
-        write_text(output, text, force)
-        click.echo(f"wrote {output}")
+    write_one_text(output or Path("-"), text, force)
 
 
 @click.command()

@@ -11,9 +11,19 @@ from typing import Any
 
 import click
 
-from .base import design_argument, guarded, load_design_file
+from .base import (
+    check_output,
+    design_argument,
+    design_text,
+    guarded,
+    is_dash,
+    load_design_file,
+    output_path,
+    write_one_text,
+)
 
 __all__ = ["COMMANDS", "sweep", "tune"]
+
 
 def _settings(design: Any) -> Any:
     from ..errors import DesignError
@@ -47,8 +57,10 @@ def _frequency(text: str | None, option: str, default: float | None) -> float | 
 @click.option("--to", "f_to", metavar="FREQ", help="Last frequency.")
 @click.option("--step", "f_step", metavar="FREQ", help='Frequency step, e.g. "0.5 MHz".')
 @click.option("--element", "element_name", metavar="NAME", help="Only this element.")
-@click.option("--csv", "csv_path", type=click.Path(dir_okay=False, path_type=Path),
-              help="Also write every point to this CSV file (Hz, ohm).")
+@click.option("--csv", "csv_path",
+              type=click.Path(dir_okay=False, allow_dash=True, path_type=Path),
+              help="Also write every point to this CSV file (Hz, ohm; `-`: standard output, "
+                   "and the report goes to standard error).")
 @click.option("--force", is_flag=True, help="Replace an existing CSV file.")
 @guarded
 def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None,
@@ -61,7 +73,6 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     from ..em.stage import electrical
     from ..plan import electrical_input
     from ..render.csv import sweep_csv
-    from ..render.files import check_writable, write_text
     from ..render.text import (
         electrical_summary_lines,
         findings_lines,
@@ -70,8 +81,7 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     )
     from ..tuning import fed_element
 
-    if csv_path is not None:
-        check_writable(csv_path, force, "--csv")
+    check_output(csv_path, force, "--csv")
     d = load_design_file(design)
     settings = _settings(d)
     lo = _frequency(f_from, "--from", settings.sweep_from_hz) or settings.sweep_from_hz
@@ -102,10 +112,9 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     out += [plan_electrical_text(pe, d.shop.units, d.shop.fraction), "", "Findings",
             "--------"]
     out += findings_lines(found) or ["No findings: every check passed."]
-    click.echo("\n".join(out))
     if csv_path is not None:
-        write_text(csv_path, sweep_csv(sweeps), force)
-        click.echo(f"wrote {csv_path}", err=True)
+        write_one_text(csv_path, sweep_csv(sweeps), force, "--csv")
+    click.echo("\n".join(out), err=is_dash(csv_path))
 
 
 @click.command()
@@ -119,8 +128,8 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
               help="Put least SWR (default: [electrical] tune_for) or resonance on target.")
 @click.option("--element", "element_name", metavar="NAME",
               help="The element to tune (needed when several have a feed gap).")
-@click.option("-o", "--output", type=click.Path(dir_okay=False, path_type=Path),
-              help="Write the tuned design to this file.")
+@output_path("Write the tuned design to this file; the report then goes to standard error "
+             "when it is `-`")
 @click.option("--force", is_flag=True, help="Replace an existing output file.")
 @guarded
 def tune(design: Path, target: str | None, measured: str | None, tune_for: str | None,
@@ -130,14 +139,13 @@ def tune(design: Path, target: str | None, measured: str | None, tune_for: str |
     from ..design.rewrite import rewrite_element
     from ..em.stage import plan_electrical
     from ..errors import DesignError
-    from ..render.files import check_writable, write_text
     from ..render.tuning import measured_text, tune_text
 
     if output is not None:
         if measured is not None:
             raise DesignError("-o writes a tuned design from --target; with --measured, change "
                               "the length by the reported figure", field="--output")
-        check_writable(output, force)
+        check_output(output, force)
     d = load_design_file(design)
     settings = _settings(d)
     target_hz = _frequency(target, "--target", settings.target_hz)
@@ -154,13 +162,12 @@ def tune(design: Path, target: str | None, measured: str | None, tune_for: str |
         r = tuning.tune(plan, element, settings, target_hz, tune_for=tune_for)
         lines = tune_text(r, d, settings)
         if output is not None:
-            text = design.read_text(encoding="utf-8")
-            new_text, changes = rewrite_element(text, d, element.name,
+            new_text, changes = rewrite_element(design_text(design), d, element.name,
                                                 tuning.tuned_values(element, r.new_params),
                                                 str(output))
-            write_text(output, new_text, force)
+            write_one_text(output, new_text, force)
             shown = ", ".join(f"{k} = \"{v}\"" for k, v in changes.items())
-            lines += ["", f"wrote {output} ({shown})"]
+            lines += ["", f"tuned design: {shown}"]
             if settings.target_hz is not None and settings.target_hz != target_hz:
                 lines.append(f"note: its [electrical] target is still "
                              f"{settings.target_hz / 1e6:g} MHz; only the length was changed")
@@ -168,7 +175,7 @@ def tune(design: Path, target: str | None, measured: str | None, tune_for: str |
             lines += ["", "use -o NEW.toml to write the tuned design"]
     pe = plan_electrical(settings)
     lines += [""] + [f"CAUTION: {c}" for c in pe.cautions]
-    click.echo("\n".join(lines))
+    click.echo("\n".join(lines), err=is_dash(output))
 
 
 COMMANDS = [sweep, tune]

@@ -20,11 +20,17 @@ import click
 from ..errors import FabplanError
 from .base import (
     EXIT_FINDINGS,
+    check_output,
     design_argument,
     guarded,
+    is_dash,
     load_plan,
+    output_path,
+    quiet,
     refuse_errors,
     with_errors_option,
+    write_one_bytes,
+    wrote,
 )
 
 __all__ = ["COMMANDS", "sheet", "template", "build", "build_files", "BUILD_NAMES"]
@@ -42,7 +48,8 @@ BUILD_NAMES = {
 
 
 class _Progress:
-    """Progress lines on stderr, once the work has taken more than a moment."""
+    """Progress lines on stderr, once the work has taken more than a moment (never
+    with -q)."""
 
     def __init__(self, after_s: float = 0.4) -> None:
         self.start = time.perf_counter()
@@ -50,6 +57,8 @@ class _Progress:
         self.shown = False
 
     def __call__(self, what: str) -> None:
+        if quiet():
+            return
         if self.shown or time.perf_counter() - self.start > self.after:
             self.shown = True
             click.echo(f"fabplan: {what}", err=True)
@@ -57,25 +66,22 @@ class _Progress:
 
 def _write_pdf(design: Path, output: Path, paper: str | None, force: bool, with_errors: bool,
                render: Callable[[Any, str | None], bytes]) -> None:
-    """Check the target, plan, render(plan, paper) and write atomically."""
-    from ..render.files import check_writable, write_bytes
-
-    if output.is_dir():
+    """Check the target, plan, render(plan, paper) and write atomically (or to
+    standard output for `-`)."""
+    if not is_dash(output) and output.is_dir():
         raise FabplanError("is a folder: give a file name ending in .pdf", field="--output",
                            value=str(output))
-    check_writable(output, force)
+    check_output(output, force)
     plan = load_plan(design)
     refuse_errors(plan, with_errors)
-    write_bytes(output, render(plan, paper), force)
-    click.echo(f"wrote {output}", err=True)
+    write_one_bytes(output, render(plan, paper), force)
     if plan.has_errors:
         sys.exit(EXIT_FINDINGS)
 
 
 @click.command()
 @design_argument
-@click.option("-o", "--output", required=True, type=click.Path(path_type=Path),
-              help="The PDF file to write.")
+@output_path("The PDF file to write", required=True)
 @click.option("--paper", default=None,
               type=click.Choice(SHEET_PAPER_CHOICES, case_sensitive=False),
               help=f"Paper size. {PAPER_HELP}")
@@ -92,8 +98,7 @@ def sheet(design: Path, output: Path, paper: str | None, force: bool,
 
 @click.command()
 @design_argument
-@click.option("-o", "--output", required=True, type=click.Path(path_type=Path),
-              help="The PDF file to write.")
+@output_path("The PDF file to write", required=True)
 @click.option("--paper", default=None,
               type=click.Choice(TEMPLATE_PAPER_CHOICES, case_sensitive=False),
               help=f"Paper: tiles on a4/letter, or one page on a print shop's roll. "
@@ -156,11 +161,14 @@ def build(design: Path, output: Path, paper: str | None, template_paper: str | N
     """Write everything: plan.json, jig DXF/SVG, build sheet, 1:1 template, sweep CSV."""
     from ..render.files import check_writable, write_set
 
+    if is_dash(output):
+        raise FabplanError("a build is a set of files: give a folder, not standard output",
+                           field="--output", value="-")
     if output.exists() and not output.is_dir():
         raise FabplanError("is a file, not a folder", field="--output", value=str(output))
     if output.is_dir():
         for name in (BUILD_NAMES["plan"], BUILD_NAMES["sheet"], BUILD_NAMES["template"]):
-            check_writable(output / name, force)
+            check_writable(output / name, force, "--output")
     progress = _Progress()
     plan = load_plan(design)
     refuse_errors(plan, with_errors)
@@ -168,7 +176,7 @@ def build(design: Path, output: Path, paper: str | None, template_paper: str | N
                         template_paper and template_paper.lower(), progress)
     progress(f"writing {len(files)} files into {output}")
     for p in write_set(output, files, force):
-        click.echo(f"wrote {p}", err=True)
+        wrote(p)
     if plan.has_errors:
         sys.exit(EXIT_FINDINGS)
 

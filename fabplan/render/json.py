@@ -2,6 +2,12 @@
 
 `plan_to_dict` reads the Plan and nothing else; each stage's section is one
 function here. Numbers are rounded for reading (`num`), never for computing.
+
+The document starts with `"format": "fabplan-plan"` and `"format_version"`;
+docs/plan-json.md lists every key, its unit and when it is present (a test
+keeps the two in step). The version goes up when a key is removed or renamed
+or changes its unit or meaning; new keys do not change it, so a script should
+ignore keys it does not know.
 """
 
 from __future__ import annotations
@@ -23,7 +29,11 @@ from ..lengths.records import PieceCore
 from ..plan import ElementPlan, Plan
 from ..stock.profiles import Profile, Round, Tube
 
-__all__ = ["plan_to_dict", "plan_to_json", "num", "profile_dict", "order_dict", "sweep_dict"]
+__all__ = ["plan_to_dict", "plan_to_json", "num", "profile_dict", "order_dict", "sweep_dict",
+           "PLAN_FORMAT", "PLAN_FORMAT_VERSION"]
+
+PLAN_FORMAT = "fabplan-plan"
+PLAN_FORMAT_VERSION = 1
 
 
 def num(x: float | None, places: int = 4, *, sig: int | None = None) -> float | None:
@@ -327,6 +337,8 @@ def plan_to_dict(plan: Plan) -> dict[str, Any]:
     s = plan.stock
     design = plan.design
     out: dict[str, Any] = {
+        "format": PLAN_FORMAT,
+        "format_version": PLAN_FORMAT_VERSION,
         "project": design.project,
         "source": design.source,
         "units": {"lengths": "mm", "mass": "kg", "angles": "deg"},

@@ -1,24 +1,27 @@
-"""The installed command line, run in a subprocess as a user would."""
+"""`plan`, `check`, `shapes`, `new`, `materials` and `stock`, run in-process
+(click's runner); the installed entry point is tested in test_entry_point.py."""
 
 from __future__ import annotations
 
+import dataclasses
 import json
 import math
-import subprocess
-import sys
+import re
+import tomllib
+from importlib import resources
 
 import pytest
 
 from fabplan.geometry.shapes import SHAPES
 
 
-def test_plan_text(run_cli, example_path):
-    out = run_cli("plan", example_path, check_exit=0).stdout
+def test_plan_text(cli, example_path):
+    out = cli("plan", example_path, check_exit=0).stdout
     assert "Cut length" in out and "centre of stock" in out and "Bend table" in out
 
 
-def test_plan_json_fields(run_cli, example_path):
-    data = json.loads(run_cli("plan", "--json", example_path, check_exit=0).stdout)
+def test_plan_json_fields(cli, example_path):
+    data = json.loads(cli("plan", "--json", example_path, check_exit=0).stdout)
     e = data["elements"][0]
     for key in ("name", "quantity", "developed_length_mm", "cut_length_mm", "bends", "marks"):
         assert key in e
@@ -39,10 +42,10 @@ def test_plan_json_fields(run_cli, example_path):
     assert e["developed_length_mm"] == pytest.approx(expected, abs=1e-3)
 
 
-def test_check_exit_codes(run_cli, write_design, folded_dipole_toml, example_path):
-    assert run_cli("check", example_path).returncode == 0
+def test_check_exit_codes(cli, write_design, folded_dipole_toml, example_path):
+    assert cli("check", example_path).returncode == 0
     bad = write_design(folded_dipole_toml(side="20 mm", gap="30 mm"))
-    proc = run_cli("check", bad)
+    proc = cli("check", bad)
     assert proc.returncode == 1
     assert "gap-wider-than-side" in proc.stdout
 
@@ -52,10 +55,10 @@ def test_check_exit_codes(run_cli, write_design, folded_dipole_toml, example_pat
      "leg = \"1 in\"\nspacing = \"1 in\"\n", "stock.diameter = 4: a bare number has no unit"),
     ("[stock\n", "not valid TOML"),
 ])
-def test_bad_input_is_one_line_exit_2(run_cli, write_design, text, needle):
+def test_bad_input_is_one_line_exit_2(cli, write_design, text, needle):
     path = write_design(text)
     for command in ("plan", "check"):
-        proc = run_cli(command, path)
+        proc = cli(command, path)
         assert proc.returncode == 2
         assert needle in proc.stderr
         assert len(proc.stderr.strip().splitlines()) == 1
@@ -63,62 +66,119 @@ def test_bad_input_is_one_line_exit_2(run_cli, write_design, text, needle):
         assert str(path) in proc.stderr
 
 
-def test_missing_file(run_cli, tmp_path):
-    proc = run_cli("plan", tmp_path / "nope.toml")
+def test_missing_file(cli, tmp_path):
+    proc = cli("plan", tmp_path / "nope.toml")
     assert proc.returncode == 2 and "file not found" in proc.stderr
 
 
-def test_shapes_lists_every_shape(run_cli):
-    out = run_cli("shapes", check_exit=0).stdout
+def test_shapes_lists_every_shape(cli):
+    out = cli("shapes", check_exit=0).stdout
     assert [line.split()[0] for line in out.strip().splitlines()] == list(SHAPES)
 
 
 @pytest.mark.parametrize("shape", list(SHAPES))
-def test_new_writes_a_buildable_template(run_cli, tmp_path, shape):
+def test_new_writes_a_buildable_template(cli, tmp_path, shape):
     target = tmp_path / f"{shape}.toml"
-    run_cli("new", shape, "-o", target, check_exit=0)
-    assert run_cli("check", target).returncode == 0, run_cli("check", target).stdout
+    cli("new", shape, "-o", target, check_exit=0)
+    assert cli("check", target).returncode == 0, cli("check", target).stdout
     # refuses to overwrite, then does with --force
-    proc = run_cli("new", shape, "-o", target)
+    proc = cli("new", shape, "-o", target)
     assert proc.returncode == 2 and "--force" in proc.stderr
-    run_cli("new", shape, "-o", target, "--force", check_exit=0)
+    cli("new", shape, "-o", target, "--force", check_exit=0)
     # stdout form is the same text
-    assert run_cli("new", shape, check_exit=0).stdout == target.read_text()
+    assert cli("new", shape, check_exit=0).stdout == target.read_text()
 
 
-def test_new_unknown_shape(run_cli):
-    proc = run_cli("new", "yagi")
+def test_new_unknown_shape(cli):
+    proc = cli("new", "yagi")
     assert proc.returncode == 2 and "unknown shape" in proc.stderr
 
 
-def test_import_and_help_stay_light():
-    """`import fabplan` and `fabplan --help` load no reportlab, ezdxf or shapely."""
-    code = ("import sys, fabplan, fabplan.cli\n"
-            "from click.testing import CliRunner\n"
-            "r = CliRunner().invoke(fabplan.cli.main, ['--help'])\n"
-            "assert r.exit_code == 0, r.output\n"
-            "heavy = sorted(m for m in sys.modules if m.split('.')[0] in "
-            "{'reportlab', 'ezdxf', 'shapely'})\n"
-            "print(','.join(heavy))\n")
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         check=True).stdout.strip()
-    assert out == ""
+def test_materials_and_stock_lists(cli):
+    assert "cu-c11000-annealed" in cli("materials", check_exit=0).stdout
+    assert "acr-1/4" in cli("stock", check_exit=0).stdout
 
 
-def test_python_dash_m_and_version(run_cli):
-    assert "fabplan" in run_cli("--version", check_exit=0).stdout
+# -- the templates' optional tables (issue 15: every template shows the tables that apply) --
+def _template(shape: str) -> str:
+    return resources.files("fabplan").joinpath("templates", f"{shape}.toml").read_text("utf-8")
 
 
-def test_materials_and_stock_lists(run_cli):
-    assert "cu-c11000-annealed" in run_cli("materials", check_exit=0).stdout
-    assert "acr-1/4" in run_cli("stock", check_exit=0).stdout
+@pytest.mark.parametrize("shape", list(SHAPES))
+def test_template_optional_tables_switched_on_make_a_buildable_design(
+        cli, write_design, uncomment_template, shape):
+    """Removing the leading "# " from every commented table of a template gives a
+    design that `check` passes, with [forming], [purchase] and [jig] in every one
+    and [electrical] wherever the shape can be fed across a gap."""
+    from fabplan.design.jig import JigSettings
+    from fabplan.design.read import load_design
+
+    text = _template(shape)
+    plain = tomllib.loads(text)
+    assert not {"forming", "purchase", "jig", "electrical"} & set(plain)  # all commented out
+    on = uncomment_template(text)
+    tables = set(tomllib.loads(on))
+    fed = "feed_gap" in SHAPES[shape].keys
+    # each table is there, or the template says why it does not apply (instead of
+    # sending the user to another shape's template)
+    shown = {t for t in ("forming", "purchase", "jig", "electrical")
+             if not re.search(rf"no \[{t}\] table", text, re.IGNORECASE)}
+    assert "purchase" in shown and ("electrical" in shown) == fed
+    assert tables & {"forming", "purchase", "jig", "electrical"} == shown
+    path = write_design(on, f"{shape}-all.toml")
+    proc = cli("check", path)
+    assert proc.returncode == 0, proc.stdout + proc.stderr
+    d = load_design(path)
+    assert d.purchase.given and d.purchase.offers and d.purchase.currency is not None
+    assert (d.forming.calibration is not None) == ("forming" in shown)
+    assert (d.jig is not None and d.jig != JigSettings()) == ("jig" in shown)  # kerf example
+    assert (d.electrical is not None) == fed
 
 
-def test_console_script_is_installed():
-    """The `fabplan` entry point sits beside the interpreter that has the package."""
-    from pathlib import Path
+@pytest.mark.parametrize("shape", ["folded-dipole", "rect-loop", "delta-loop", "circle-loop"])
+def test_template_targets_sit_where_the_dimensions_resonate(plan_of, uncomment_template, shape):
+    """Not a check against a source: only that each fed template's [electrical]
+    target is where its own dimensions resonate (within 2 %, four times the
+    model's stated uncertainty), so the example values belong together."""
+    plan = plan_of(uncomment_template(_template(shape)))
+    el = plan.elements[0].electrical
+    assert el.target_hz == 440e6 and el.sweep.resonance_hz is not None
+    assert el.sweep.resonance_hz == pytest.approx(el.target_hz, rel=0.02)
 
-    script = Path(sys.executable).with_name("fabplan")
-    assert script.exists(), script
-    proc = subprocess.run([str(script), "shapes"], capture_output=True, text=True, timeout=120)
-    assert proc.returncode == 0 and "folded-dipole" in proc.stdout
+
+def _jig_block(text: str) -> list[tuple[str, str, str]]:
+    """(key, shown value, comment) of each line of a template's commented [jig] table."""
+    lines = text.splitlines()
+    start = lines.index("# [jig]")
+    rows = []
+    for line in lines[start + 1:]:
+        if not line.startswith("#"):
+            break
+        m = re.match(r"# (\w+) = (\"[^\"]*\"|\S+)\s*(?:#(.*))?$", line)
+        if m:
+            rows.append((m.group(1), m.group(2), m.group(3) or ""))
+    return rows
+
+
+@pytest.mark.parametrize("shape", list(SHAPES))
+def test_template_jig_comments_state_the_real_defaults(plan_of, shape):
+    """Every [jig] key is shown; each line's value is the default unless its
+    comment names another one (`default "0 mm"`), and those defaults are what
+    fabplan uses when the key is left out (JigSettings())."""
+    from fabplan.design.jig import JigSettings
+    from fabplan.design.read import parse_design
+
+    text = _template(shape)
+    if "# [jig]" not in text:
+        assert re.search(r"no \[jig\] table", text, re.IGNORECASE)  # says why
+        return
+    rows = _jig_block(text)
+    keys = {f.name.removesuffix("_mm") for f in dataclasses.fields(JigSettings)}
+    assert {k for k, _, _ in rows} == keys
+    defaults = []
+    for key, shown, comment in rows:
+        m = re.search(r"default (\"[^\"]*\"|[\w.+-]+)", comment)
+        defaults.append(f"{key} = {m.group(1) if m else shown}")
+    head = "\n".join(ln for ln in text.splitlines() if not ln.startswith("#"))
+    design = parse_design(head + "\n[jig]\n" + "\n".join(defaults) + "\n")
+    assert design.jig == JigSettings()

@@ -150,10 +150,10 @@ def _one_line_error(proc) -> str:
     return lines[0]
 
 
-def test_sweep_without_electrical_table_is_a_one_line_error(run_cli, write_design):
+def test_sweep_without_electrical_table_is_a_one_line_error(cli, write_design):
     p = write_design(text(electrical=False))
     for args in (("sweep", p), ("tune", p, "--target", "440 MHz")):
-        line = _one_line_error(run_cli(*args))
+        line = _one_line_error(cli(*args))
         assert "no [electrical] table" in line
 
 
@@ -165,47 +165,45 @@ def test_sweep_without_electrical_table_is_a_one_line_error(run_cli, write_desig
     (("tune", "{p}", "--measured", "0 MHz"), "positive frequency"),
     (("tune", "{p}", "--measured", "436 MHz", "-o", "{out}"), "--output"),
 ])
-def test_bad_options_are_one_line_errors(run_cli, write_design, tmp_path, args, match):
+def test_bad_options_are_one_line_errors(cli, write_design, tmp_path, args, match):
     p = write_design(text())
     out = tmp_path / "new.toml"
-    line = _one_line_error(run_cli(*(a.format(p=p, out=out) for a in args)))
+    line = _one_line_error(cli(*(a.format(p=p, out=out) for a in args)))
     assert match in line
     assert not out.exists()
 
 
-def test_existing_output_is_not_replaced(run_cli, write_design, tmp_path):
+def test_existing_output_is_not_replaced(cli, write_design, tmp_path):
     p = write_design(text())
     out = tmp_path / "new.toml"
     out.write_text("keep", encoding="utf-8")
-    line = _one_line_error(run_cli("tune", p, "-o", out))
+    line = _one_line_error(cli("tune", p, "-o", out))
     assert "already exists" in line and out.read_text() == "keep"
 
 
-def test_the_templates_commented_electrical_table_is_valid():
+def test_the_templates_commented_electrical_table_is_valid(uncomment_template):
     from importlib import resources
 
     t = resources.files("fabplan").joinpath("templates", "folded-dipole.toml").read_text("utf-8")
-    head, tail = t.split("# Electrical check (optional)")
-    block = tail.split("\n\n")[0].split("\n")[2:]  # up to the first blank line
-    body = "\n".join(line[2:] if line.startswith("# ") else ("" if line.strip() == "#" else line)
-                     for line in block)
-    rest = "\n\n" + "\n\n".join(tail.split("\n\n")[1:])
-    body = body.replace('ground_height = "2 m"', "")  # free space: no height
-    s = parse_design(head + body + rest).electrical
+    assert parse_design(t).electrical is None  # commented out as written
+    s = parse_design(uncomment_template(t)).electrical
     assert isinstance(s.chain.matching, CoaxBalun) and s.chain.feed_line is not None
     assert s.target_hz == 440e6 and s.reference_ohm == 200.0 and s.power_w == 50.0
+    assert s.tune_for == "resonance" and s.ground == "free-space"
     assert not math.isnan(s.chain.feed_line.matched_loss_db(440e6))
 
 
 # -- end to end, with the real method-of-moments solver -------------------------------------------
-def test_tune_writes_a_design_whose_least_swr_is_on_target(run_cli, write_design, tmp_path):
+def test_tune_writes_a_design_whose_least_swr_is_on_target(cli, write_design, tmp_path):
     from fabplan.design.read import load_design
     from fabplan.plan import make_plan
 
     p = write_design(text())
     out = tmp_path / "tuned.toml"
-    proc = run_cli("tune", p, "--target", "440 MHz", "-o", out, check_exit=0)
-    assert f"wrote {out}" in proc.stdout and "CAUTION: RF exposure" in proc.stdout
+    proc = cli("tune", p, "--target", "440 MHz", "-o", out, check_exit=0)
+    # the "wrote" line on standard error, like every command's; the report on standard output
+    assert proc.stderr == f"wrote {out}\n" and "wrote" not in proc.stdout
+    assert "CAUTION: RF exposure" in proc.stdout and "tuned design: side = " in proc.stdout
     assert "cut length" in proc.stdout and "bend 1 start" in proc.stdout
     # only the side changed, to a length string
     old, new = p.read_text().split("\n"), out.read_text().split("\n")
@@ -218,7 +216,7 @@ def test_tune_writes_a_design_whose_least_swr_is_on_target(run_cli, write_design
     assert not any(f.code == "em-off-target" for f in plan.findings)
 
 
-def test_sweep_prints_the_figures_and_writes_every_point(run_cli, write_design, tmp_path):
+def test_sweep_prints_the_figures_and_writes_every_point(cli, write_design, tmp_path):
     import csv
     import dataclasses
 
@@ -228,7 +226,7 @@ def test_sweep_prints_the_figures_and_writes_every_point(run_cli, write_design, 
 
     p = write_design(text())
     out = tmp_path / "sweep.csv"
-    proc = run_cli("sweep", p, "--from", "400 MHz", "--to", "440 MHz", "--step", "2 MHz",
+    proc = cli("sweep", p, "--from", "400 MHz", "--to", "440 MHz", "--step", "2 MHz",
                    "--csv", out, check_exit=0)
     for words in ("least SWR", "resonance (X = 0)", "bandwidth SWR < 1.5", "bandwidth SWR < 2",
                   "SWR term", "SWR sys", "+-0.5 %", "RF exposure", "surroundings"):
@@ -250,9 +248,9 @@ def test_sweep_prints_the_figures_and_writes_every_point(run_cli, write_design, 
     assert f"{ee.sweep.min_swr:.2f} at {ee.sweep.min_swr_hz / 1e6:.3f} MHz" in proc.stdout
 
 
-def test_plan_json_has_the_electrical_sections(run_cli, write_design):
+def test_plan_json_has_the_electrical_sections(cli, write_design):
     p = write_design(text())
-    proc = run_cli("plan", p, "--json", check_exit=0)
+    proc = cli("plan", p, "--json", check_exit=0)
     d = json.loads(proc.stdout)
     el = d["elements"][0]["electrical"]
     assert el["target_hz"] == 440e6 and el["unknowns"] > 10
@@ -265,9 +263,9 @@ def test_plan_json_has_the_electrical_sections(run_cli, write_design):
     assert top["real_ground_modelled"] is False and len(top["cautions"]) == 2
 
 
-def test_tune_from_a_measurement(run_cli, write_design):
+def test_tune_from_a_measurement(cli, write_design):
     p = write_design(text())
-    proc = run_cli("tune", p, "--measured", "430 MHz", "--for", "resonance", check_exit=0)
+    proc = cli("tune", p, "--measured", "430 MHz", "--for", "resonance", check_exit=0)
     out = proc.stdout
     assert "model sensitivity" in out and "proportional rule" in out and "Trust the" in out
     assert "kHz per mm" in out

@@ -12,27 +12,27 @@ def design(write_design, folded_dipole_toml):
                         "dipole.toml")
 
 
-def test_writes_dxf_and_svg_and_refuses_to_overwrite(run_cli, design, tmp_path):
+def test_writes_dxf_and_svg_and_refuses_to_overwrite(cli, design, tmp_path):
     out = tmp_path / "jig"
-    proc = run_cli("jig", design, "-o", out, check_exit=0)
+    proc = cli("jig", design, "-o", out, check_exit=0)
     files = sorted(p.name for p in out.iterdir())
     assert files == ["dipole-jig-1.dxf", "dipole-jig-1.svg"]
     assert proc.stderr.count("wrote ") == 2
     first = {p.name: p.read_bytes() for p in out.iterdir()}
-    refused = run_cli("jig", design, "-o", out, "--kerf", "0.3 mm")
+    refused = cli("jig", design, "-o", out, "--kerf", "0.3 mm")
     assert refused.returncode == 2
     assert len(refused.stderr.strip().splitlines()) == 1
     assert "already exists" in refused.stderr and "--force" in refused.stderr
     assert {p.name: p.read_bytes() for p in out.iterdir()} == first  # untouched
     # --force replaces them; the same input gives the same bytes
-    run_cli("jig", design, "-o", out, "--force", check_exit=0)
+    cli("jig", design, "-o", out, "--force", check_exit=0)
     assert {p.name: p.read_bytes() for p in out.iterdir()} == first
     assert not [p for p in out.iterdir() if p.name.startswith(".")]  # no temp files left
 
 
-def test_options_reach_the_drawing(run_cli, design, tmp_path):
+def test_options_reach_the_drawing(cli, design, tmp_path):
     out = tmp_path / "inch"
-    run_cli("jig", design, "-o", out, "--format", "dxf", "--units", "in", "--kerf", "0.2 mm",
+    cli("jig", design, "-o", out, "--format", "dxf", "--units", "in", "--kerf", "0.2 mm",
             "--bed", "24x18in", check_exit=0)
     assert [p.suffix for p in out.iterdir()] == [".dxf"]
     doc = ezdxf.readfile(next(out.iterdir()))
@@ -49,9 +49,9 @@ def test_options_reach_the_drawing(run_cli, design, tmp_path):
     (["--units", "cm"], "--units"),
     (["--kerf", "0.2"], "--kerf"),
 ])
-def test_bad_options_give_one_line_and_exit_2(run_cli, design, tmp_path, args, field):
+def test_bad_options_give_one_line_and_exit_2(cli, design, tmp_path, args, field):
     out = tmp_path / "bad"
-    proc = run_cli("jig", design, "-o", out, *args)
+    proc = cli("jig", design, "-o", out, *args)
     assert proc.returncode == 2
     lines = proc.stderr.strip().splitlines()
     assert len(lines) == 1 and field in lines[0] and "Traceback" not in proc.stderr

@@ -47,8 +47,8 @@ def bender_fd(write_design, spacing="1 1/4 in", trim="40 mm", grip="50 mm",
                                          reference=reference, direction=direction, extra=extra))
 
 
-def test_plan_json_carries_forming_figures(run_cli, example_path):
-    proc = run_cli("plan", "--json", example_path, check_exit=0)
+def test_plan_json_carries_forming_figures(cli, example_path):
+    proc = cli("plan", "--json", example_path, check_exit=0)
     d = json.loads(proc.stdout)
     e = d["elements"][0]
     for b in e["bends"]:
@@ -76,8 +76,8 @@ def test_plan_json_carries_forming_figures(run_cli, example_path):
     assert f["limits"][0]["min_radius_mm"] == pytest.approx(0.5 * IN)  # 2 x OD, scaled CTH
 
 
-def test_plan_text_has_a_forming_block(run_cli, example_path):
-    out = run_cli("plan", example_path, check_exit=0).stdout
+def test_plan_text_has_a_forming_block(cli, example_path):
+    out = cli("plan", example_path, check_exit=0).stdout
     assert "Forming (springback" in out and "Jig formers" in out and "splay" in out
 
 
@@ -97,15 +97,15 @@ centre_spacing = "{spacing}"
 """
 
 
-def test_check_reports_a_too_tight_bend_with_exit_1(run_cli, write_design):
+def test_check_reports_a_too_tight_bend_with_exit_1(cli, write_design):
     path = write_design(TIGHT.format(spacing="30 mm"))
-    proc = run_cli("check", path)
+    proc = cli("check", path)
     assert proc.returncode == 1, proc.stdout + proc.stderr
     assert "bend-too-tight" in proc.stdout
     assert "outer-strain-exceeds-elongation" in proc.stdout
     assert "use a centreline radius of at least" in proc.stdout
     # at 4.5 D (radius 57 mm) the same stock is buildable
-    ok = run_cli("check", write_design(TIGHT.format(spacing="114.3 mm"), "ok.toml"))
+    ok = cli("check", write_design(TIGHT.format(spacing="114.3 mm"), "ok.toml"))
     assert ok.returncode == 0, ok.stdout
 
 
@@ -196,8 +196,8 @@ def test_bender_wide_spacing_gets_square_ends(write_design):
     assert "square-ends-substituted" in text
 
 
-def test_bender_narrow_spacing_cannot_be_made(run_cli, write_design):
-    proc = run_cli("check", bender_fd(write_design, spacing="1 in"))
+def test_bender_narrow_spacing_cannot_be_made(cli, write_design):
+    proc = cli("check", bender_fd(write_design, spacing="1 in"))
     assert proc.returncode == 1
     assert "spacing-too-narrow-for-tool" in proc.stdout
     assert "widen the centre spacing to at least" in proc.stdout
@@ -308,9 +308,9 @@ def test_forming_table_is_validated(write_design):
         load_design(write_design(base.replace("angle_held", "angle_hold"), "bad4.toml"))
 
 
-def test_bad_forming_input_exits_2_with_one_line(run_cli, write_design):
+def test_bad_forming_input_exits_2_with_one_line(cli, write_design):
     path = write_design(CAL.format(held=90, released=92))
-    proc = run_cli("check", path)
+    proc = cli("check", path)
     assert proc.returncode == 2
     assert "forming.calibration.angle_released" in proc.stderr
     assert "Traceback" not in proc.stderr
