@@ -32,10 +32,10 @@ __all__ = ["layout_jig", "piece_parts", "all_shapes", "STATUS_LINES", "NoteStrip
            "note_strip", "usable_room"]
 
 NOTE_PITCH = 1.6  # baseline to baseline, in text heights
-STATUS_LINES = 2  # lines kept free at the top of the notes for a renderer's status line
+STATUS_LINES = 1  # lines kept free at the top of the notes for a renderer's status line
 MAX_NOTE_HEIGHT_MM = 5.0
 MIN_NOTE_HEIGHT_MM = 1.5
-MAX_STRIP_SHARE = 0.25  # the notes take at most this share of the bed's height
+MAX_STRIP_SHARE = 0.2  # the notes take at most this share of the bed's height
 
 
 @dataclass(frozen=True)
@@ -69,7 +69,7 @@ def _common_notes(s: JigSettings) -> list[str]:
 def note_strip(project: str, s: JigSettings) -> NoteStrip:
     """How the notes fit along the top of a bed of the settings' size: the
     largest text height up to 5 mm (and the engraving height) that keeps them
-    within a quarter of the bed's height; lines beyond that are left out."""
+    within a fifth of the bed's height; lines beyond that are left out."""
     w, h = s.bed_mm
     edge = max(s.part_gap_mm, 2.0)
     th = min(s.text_height_mm, MAX_NOTE_HEIGHT_MM)
