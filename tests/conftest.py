@@ -279,6 +279,36 @@ def helix_plan():
     return make_plan(parse_design(HELIX))
 
 
+# issue 15's case: a 520 mm square loop of 1/2 in aluminium tube, whose plate is
+# larger than the default 600 x 400 mm bed both ways
+SQUARE_LOOP = """
+[project]
+name = "square loop"
+
+[stock]
+catalogue = "al-1/2x0.058"
+
+[shop]
+units = "mm"
+
+[[element]]
+name = "loop"
+shape = "rect-loop"
+side = "520 mm"
+corner_radius = "75 mm"
+feed_gap = "20 mm"
+"""
+
+
+@pytest.fixture(scope="session")
+def square_loop_plan():
+    """A 520 mm square loop of 1/2 x 0.058 in aluminium tube (issue 15)."""
+    from fabplan.design.read import parse_design
+    from fabplan.plan import make_plan
+
+    return make_plan(parse_design(SQUARE_LOOP))
+
+
 # -- reading the jig's DXF back with ezdxf -----------------------------------------------
 def _read_dxf(data: bytes):
     """An ezdxf document from DXF bytes (ezdxf's reader: an independent check)."""

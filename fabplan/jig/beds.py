@@ -1,4 +1,8 @@
-"""Laying jig parts out on machine beds: first-fit shelves, largest first."""
+"""Laying jig parts out on machine beds: first-fit shelves, largest first.
+
+Beds are capped (`MAX_BEDS`): a layout that would need more is refused with a
+finding before packing, judged by the parts' area.
+"""
 
 from __future__ import annotations
 
@@ -6,16 +10,30 @@ from ..design.jig import JigSettings
 from ..errors import Finding
 from .records import Bed, Part, Placed
 
-__all__ = ["pack"]
+__all__ = ["pack", "MAX_BEDS"]
+
+MAX_BEDS = 50  # beds one layout may fill
 
 
-def pack(parts: list[Part], s: JigSettings) -> tuple[list[Bed], list[Finding]]:
+def pack(parts: list[Part], s: JigSettings,
+         height_mm: float | None = None) -> tuple[list[Bed], list[Finding]]:
     """First-fit shelf packing: largest parts first; each goes on the first
     shelf of the first bed with room, else on a new shelf, else on a new bed.
-    A part turns 90 degrees when only that way fits, or to lie along a shelf."""
-    W, H = s.bed_mm
+    A part turns 90 degrees when only that way fits, or to lie along a shelf.
+    `height_mm` is the height of the bed the parts may use (from its bottom
+    edge; default the whole bed)."""
+    W, H = s.bed_mm[0], s.bed_mm[1] if height_mm is None else height_mm
     gap = s.part_gap_mm
     findings: list[Finding] = []
+    area = sum((p.bounds()[2] - p.bounds()[0] + gap) * (p.bounds()[3] - p.bounds()[1] + gap)
+               for p in parts)
+    least = area / max((W - gap) * (H - gap), 1.0)
+    if least > MAX_BEDS:
+        return [], [Finding("jig-too-many-beds", "error",
+                            f"the jig's parts would fill at least {least:.0f} beds of "
+                            f"{s.bed_mm[0]:.0f} x {s.bed_mm[1]:.0f} mm, more than the "
+                            f"{MAX_BEDS} one layout may take; use a larger bed, or "
+                            "split = \"end-plates\" for long elements")]
     beds: list[list[Placed]] = []
     shelves: list[list[list[float]]] = []  # per bed: [y, height, next x]
 
@@ -47,7 +65,10 @@ def pack(parts: list[Part], s: JigSettings) -> tuple[list[Bed], list[Finding]]:
             w, h = size(p, False)
             findings.append(Finding("jig-too-big", "error",
                                     f"{p.name} ({w:.0f} x {h:.0f} mm) does not fit the "
-                                    f"{W:.0f} x {H:.0f} mm bed", p.element))
+                                    f"{s.bed_mm[0]:.0f} x {s.bed_mm[1]:.0f} mm bed ("
+                                    f"{W - 2 * gap:.0f} x {H - 2 * gap:.0f} mm inside the "
+                                    "part gap and below the notes); use a larger bed",
+                                    p.element))
             continue
         # prefer lying flat along the shelf (the shorter side up)
         options.sort(key=lambda rot: size(p, rot)[1])
@@ -57,6 +78,12 @@ def pack(parts: list[Part], s: JigSettings) -> tuple[list[Bed], list[Finding]]:
             if found is not None:
                 break
         if found is None:
+            if len(beds) >= MAX_BEDS:
+                findings.append(Finding("jig-too-many-beds", "error",
+                                        f"the jig's parts need more than {MAX_BEDS} beds of "
+                                        f"{s.bed_mm[0]:.0f} x {s.bed_mm[1]:.0f} mm; use a "
+                                        "larger bed", p.element))
+                break
             beds.append([])
             shelves.append([])
             rot = options[0]
@@ -71,7 +98,7 @@ def pack(parts: list[Part], s: JigSettings) -> tuple[list[Bed], list[Finding]]:
         dx, dy = (x + y1, y - x0) if rot else (x - x0, y - y0)
         beds[b].append(Placed(p, dx, dy, rot))
         sh[2] = x + w + gap
-    out = [Bed(i, W, H, tuple(b)) for i, b in enumerate(beds, 1) if b]
+    out = [Bed(i, s.bed_mm[0], s.bed_mm[1], tuple(b)) for i, b in enumerate(beds, 1) if b]
     for bed in out:
         shapes = [pl.outline() for pl in bed.parts]
         for i in range(len(shapes)):

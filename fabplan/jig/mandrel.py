@@ -1,7 +1,9 @@
 """A helix's jig: a pitch guide to cut and a winding mandrel drawn to size.
 
 The mandrel's diameter is the forming stage's former (springback-compensated);
-the guide has a notch for each turn at the pitch.
+the guide has a notch for each turn at the pitch, as wide as the wire plus the
+design's notch clearance (`[jig] notch_clearance`), so the wire drops in and the
+guide comes off the finished coil; its label states both figures.
 """
 
 from __future__ import annotations
@@ -12,9 +14,20 @@ from ..design.jig import JigSettings
 from ..errors import Finding
 from ..units import format_drawing_length
 from .records import JigPiece, Part
-from .shapes import Arc, Contour, Item, Line, Text, contour_to_polygon, offset_contour, rounded_rect
+from .shapes import (
+    Arc,
+    Contour,
+    Item,
+    Line,
+    Text,
+    contour_to_polygon,
+    offset_contour,
+    rounded_rect,
+)
 
-__all__ = ["helix_parts"]
+__all__ = ["helix_parts", "MAX_TURNS"]
+
+MAX_TURNS = 500  # notches on one pitch guide
 
 
 def helix_parts(e: JigPiece, s: JigSettings) -> tuple[list[Part], list[Finding]]:
@@ -32,10 +45,25 @@ def helix_parts(e: JigPiece, s: JigSettings) -> tuple[list[Part], list[Finding]]
     units = s.units
     # the pitch guide: a strip with a notch for each turn, laid along the mandrel
     n = math.floor(turns + 1e-9) + 1
-    nr = d / 2
+    reach = (n - 1) * pitch
+    if n > MAX_TURNS or reach > max(s.bed_mm):
+        return [], [Finding("jig-too-big", "error",
+                            f"the pitch guide for {turns:g} turns at {pitch:g} mm pitch would be "
+                            f"over {reach:.0f} mm long with {n} notches, more than the "
+                            f"{s.bed_mm[0]:.0f} x {s.bed_mm[1]:.0f} mm bed takes (or the "
+                            f"{MAX_TURNS} notches the jig stage draws); use a larger bed, or "
+                            "wind the coil on a mandrel marked at the pitch", e.name)]
+    notch = d + s.notch_clearance_mm
+    nr = notch / 2
     end = max(10.0, nr + 6.0)
-    length = (n - 1) * pitch + 2 * end
-    height = max(20.0, 3 * d)
+    th = s.text_height_mm
+    label = [f"{e.name}: pitch guide",
+             f"pitch {format_drawing_length(pitch, units)}",
+             f"notch {format_drawing_length(notch, units)}: wire "
+             f"{format_drawing_length(d, units)} + {s.notch_clearance_mm:.2f} mm clearance"]
+    label_w = max(Text((0.0, 0.0), t, th).safe_width for t in label)
+    length = max((n - 1) * pitch + 2 * end, label_w + 8.0)
+    height = max(20.0, 3 * d, nr + 4.0 + len(label) * 1.6 * th + 2.0)
     segs: list[Line | Arc] = [Line((0.0, 0.0), (length, 0.0)), Line((length, 0.0),
                                                                  (length, height))]
     x = length
@@ -47,10 +75,11 @@ def helix_parts(e: JigPiece, s: JigSettings) -> tuple[list[Part], list[Finding]]
     segs.append(Line((x, height), (0.0, height)))
     segs.append(Line((0.0, height), (0.0, 0.0)))
     outline = offset_contour(Contour(tuple(segs)), g)
-    th = min(s.text_height_mm, height / 4)
-    items = [Item("cut", outline, "outline"),
-             Item("engrave", Text((end, height / 4), f"{e.name}: pitch guide, pitch "
-                                  f"{format_drawing_length(pitch, units)}", th), "label")]
+    items = [Item("cut", outline, "outline")]
+    y = height - nr - 2.0 - 1.1 * th
+    for text in label:
+        items.append(Item("engrave", Text((4.0, y), text, th), "label"))
+        y -= 1.6 * th
     guide = Part(f"{e.name}: pitch guide", "pitch-guide", e.name, tuple(items),
                  contour_to_polygon(outline))
     # the mandrel, drawn to size as a reference (turned or cut from round bar)
@@ -71,7 +100,7 @@ def helix_parts(e: JigPiece, s: JigSettings) -> tuple[list[Part], list[Finding]]
     for text in lines:
         mitems.append(Item("notes", Text((0.0, yt), text, s.text_height_mm), "label"))
         yt -= 1.6 * s.text_height_mm
-    wide = max(w, max(0.62 * s.text_height_mm * len(t) for t in lines))
+    wide = max(w, max(Text((0.0, 0.0), t, s.text_height_mm).safe_width for t in lines))
     mandrel = Part(f"{e.name}: winding mandrel", "mandrel", e.name, tuple(mitems),
                    box(-1.0, yt, wide + 1.0, mandrel_d + 1.0))
     parts = [guide, mandrel]

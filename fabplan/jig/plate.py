@@ -10,7 +10,9 @@ Plan; the plate only places pins and labels clear of everything else.
 Plate outline: the convex outline of everything on the plate grown by the
 margin (or the bounding rectangle when that costs under 15 % more area), with
 rounded corners and mounting holes. A plate larger than the bed is split
-(see split.py).
+(see split.py). A plate that would need more pin holes than `MAX_PIN_HOLES`,
+or more bed-sized sections than split.py cuts, is refused with an error
+finding before any work.
 """
 
 from __future__ import annotations
@@ -20,9 +22,10 @@ from typing import Any
 
 from ..design.jig import JigSettings
 from ..errors import Finding
-from ..geometry.planar import conductor_caps, conductor_edges, planar_centreline
+from ..geometry.planar import bounds, conductor_caps, conductor_edges, planar_centreline
 from ..units import format_drawing_length, wrap_words
 from .parts import RECTANGLE_PREFERENCE, Board, fits, former_parts, hole, plate, text_box
+from .pins import pin_stations, place_pins
 from .records import JigPiece, Part
 from .shapes import (
     Arc,
@@ -36,9 +39,12 @@ from .shapes import (
     contour_to_polygon,
     offset_contour,
 )
-from .split import split_plate
+from .split import MAX_SECTIONS, split_plate
 
-__all__ = ["plate_parts"]
+__all__ = ["plate_parts", "MAX_PIN_HOLES", "MAX_SECTIONS"]
+
+# work bound: a plate needing more is refused with a finding before any work
+MAX_PIN_HOLES = 4000  # hold-down pin holes on one piece's plate
 
 
 def _normal(t: P) -> P:
@@ -55,17 +61,21 @@ def _conductor_items(segs: list[Line | Arc], d: float) -> list[Item]:
     return items
 
 
-def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], list[Finding]]:
+def plate_parts(e: JigPiece, project: str, s: JigSettings,
+                room: tuple[float, float]) -> tuple[list[Part], list[Finding]]:
+    """The base plate (whole, or split to fit `room`, the usable width and
+    height of the bed in mm) and the former discs of a flat piece."""
+    import shapely
     from shapely.geometry import LineString, Point, box
-    from shapely.ops import unary_union
 
     f = e.forming
     d = e.conductor_diameter_mm
     g = s.kerf_mm / 2
     findings: list[Finding] = []
     segs = planar_centreline(e.path)
-    pts, _ = e.path.sample(0.5)
-    centreline = LineString([(p[0], p[1]) for p in pts])
+    too_big = _beyond_limits(e, s, segs, room)
+    if too_big is not None:
+        return former_parts(e, s), [too_big]
     # the footprint for clearances: a coarser polyline, widened by its chord error
     step = max(1.0, d)
     coarse, _ = e.path.sample(step)
@@ -83,45 +93,24 @@ def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], 
     keep_out = [conductor, *discs]
     # hold-down pins: both sides of each straight run, tangent to the conductor
     pin_r = s.pin_diameter_mm / 2
-    off = d / 2 + pin_r
-    pins: list[P] = []
     reach = d / 2 + 2.0  # half-length of an engraved mark across the conductor
     ticks = []
     for m in f.jig_marks:
         nx, ny = _normal(m.direction)
         p = m.point_mm
-        ticks.append(LineString([(p[0] - reach * nx, p[1] - reach * ny),
-                                 (p[0] + reach * nx, p[1] + reach * ny)]))
-    for seg in segs:
-        if not isinstance(seg, Line) or seg.length < s.pin_diameter_mm:
-            continue
-        t = seg.tangent_in()
-        nx, ny = _normal(t)
-        clear = pin_r + 2.0
-        usable = seg.length - 2 * clear
-        count = 1 if usable <= 0 else int(usable // s.pin_pitch_mm) + 1
-        for j in range(count):
-            along = seg.length / 2 + (j - (count - 1) / 2) * s.pin_pitch_mm
-            base = (seg.start[0] + along * t[0], seg.start[1] + along * t[1])
-            for side in (1, -1):
-                c = (base[0] + side * off * nx, base[1] + side * off * ny)
-                disc = Point(c).buffer(pin_r + 1.0)
-                if centreline.distance(Point(c)) < off - 0.01:
-                    continue
-                if any(disc.intersects(x) for x in discs):
-                    continue
-                if any(Point(c).distance(Point(q)) < 2 * pin_r + 2.0 for q in pins):
-                    continue
-                if any(t.distance(Point(c)) < pin_r + 1.5 for t in ticks):
-                    continue  # a pin would hide a mark
-                pins.append(c)
+        ticks.append(Line((p[0] - reach * nx, p[1] - reach * ny),
+                          (p[0] + reach * nx, p[1] + reach * ny)))
+    pins = place_pins(segs, d, s.pin_diameter_mm, s.pin_pitch_mm, discs, ticks)
     for c in pins:
         items.append(hole(c, s.pin_diameter_mm, g, "pin-hole"))
-        keep_out.append(Point(c).buffer(pin_r))
+    if pins:
+        keep_out.extend(shapely.buffer(shapely.points(pins), pin_r, quad_segs=16).tolist())
     # engraved marks across the conductor, labelled beside it
     th = max(2.0, 0.7 * s.text_height_mm)
     texts: list[Any] = []
-    blocked = unary_union([*keep_out, box(-6.0, -6.0, 11.0, 6.0)])  # and the datum cross
+    # what a mark's label must keep clear of, and the datum cross, in a spatial
+    # index (a label intersects their union exactly when it meets one of them)
+    blocked = shapely.STRtree([*keep_out, box(-6.0, -6.0, 11.0, 6.0)])
     for m in f.jig_marks:
         p = (m.point_mm[0], m.point_mm[1])
         nx, ny = _normal(m.direction)
@@ -136,17 +125,17 @@ def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], 
             cx, cy = p[0] + side * dist * nx, p[1] + side * dist * ny
             txt = Text((cx - txt.width / 2, cy - th / 2), m.label, th)
             boxed = text_box(txt)
-            if boxed.intersects(blocked) or any(boxed.intersects(b) for b in texts):
+            if len(blocked.query(boxed, predicate="intersects")) or \
+                    any(boxed.intersects(b) for b in texts):
                 continue
             items.append(Item("engrave", txt, "mark-label"))
             texts.append(boxed)
             break
     # the label block under everything
-    body = unary_union([*keep_out, *texts])
-    x0, y0, x1, y1 = body.bounds
+    x0, y0, x1, y1 = (float(v) for v in shapely.total_bounds([*keep_out, *texts]))
     h = s.text_height_mm
-    room = min(x1 - x0, max(s.bed_mm) - 2 * (s.part_gap_mm + s.margin_mm) - 20.0)
-    lines = _label_lines(project, e, s, max(30, int(room / (0.62 * h))))
+    label_room = min(x1 - x0, max(s.bed_mm) - 2 * (s.part_gap_mm + s.margin_mm) - 20.0)
+    lines = _label_lines(project, e, s, max(30, int(label_room / (0.62 * h))))
     label_at = (x0, y0 - 4.0 - h)
     first_label = len(texts)
     y = y0 - 4.0 - h
@@ -160,10 +149,9 @@ def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], 
     items.append(Item("reference", RefPoint((10.0, 0.0), "datum +x"), "datum +x"))
     items.append(Item("reference", Line((-5.0, 0.0), (10.0, 0.0)), "datum"))
     items.append(Item("reference", Line((0.0, -5.0), (0.0, 5.0)), "datum"))
-    everything = unary_union([body, *texts, Point(0, 0).buffer(10)])
-    bx0, by0, bx1, by1 = everything.bounds
+    everything = [*keep_out, *texts, Point(0, 0).buffer(10)]
+    bx0, by0, bx1, by1 = (float(v) for v in shapely.total_bounds(everything))
     margin = s.margin_mm
-    room = (s.bed_mm[0] - 2 * s.part_gap_mm, s.bed_mm[1] - 2 * s.part_gap_mm)
     parts: list[Part] = []
     # the convex outline of everything on the plate grown by the margin, when it
     # saves material over the simpler rectangle
@@ -181,8 +169,9 @@ def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], 
             items.append(hole((cx, cy), s.mounting_hole_mm, g, "mounting-hole"))
         mounting = [Point(it.shape.centre).buffer(s.mounting_hole_mm / 2) for it in items
                     if it.role == "mounting-hole" and isinstance(it.shape, Circle)]
-        board = Board(items, keep_out + mounting + [box(*t.bounds) for t in texts], texts,
-                       label_at, tuple(texts[first_label:]))
+        board = Board(items, keep_out + mounting + [box(*t.bounds) for t in texts]
+                      + [box(-6.0, -6.0, 11.0, 6.0)], texts,  # and the datum cross
+                      label_at, tuple(texts[first_label:]))
         plate_ = plate(e.name, "plate", f"{e.name}: base plate", items, rect, s,
                        (s.corner_radius_mm,) * 4)
         if fits(plate_, room):
@@ -195,15 +184,47 @@ def plate_parts(e: JigPiece, project: str, s: JigSettings) -> tuple[list[Part], 
     return parts, findings
 
 
-def _hull_plate(e: JigPiece, s: JigSettings, everything: Any, items: list[Item]) -> Part | None:
-    """The plate as the convex outline of everything on it, grown by the margin:
-    straight edges and true arcs of the corner radius. Mounting holes go in the
-    margin at the sharpest corners. None when the outline degenerates."""
-    from shapely.geometry import Point
+def _beyond_limits(e: JigPiece, s: JigSettings, segs: list[Line | Arc],
+                   room: tuple[float, float]) -> Finding | None:
+    """An error finding, before any work, when the plate would need more pin
+    holes or more bed-sized sections than the stage lays out."""
+    holes = 2 * sum(count for _, count in pin_stations(segs, s.pin_diameter_mm,
+                                                       s.pin_pitch_mm))
+    if holes > MAX_PIN_HOLES:
+        return Finding("jig-too-many-pins", "error",
+                       f"the base plate would need {holes} hold-down pin holes, more than the "
+                       f"{MAX_PIN_HOLES} the jig stage lays out for one piece; set a larger "
+                       f"[jig] pin_pitch (now {s.pin_pitch_mm:g} mm) or bend this piece "
+                       "without a full plate (split = \"end-plates\")", e.name)
+    if s.split != "sections" or not segs:
+        return None
+    x0, y0, x1, y1 = bounds(segs)
+    grow = 2 * (e.conductor_diameter_mm / 2 + s.pin_diameter_mm + s.margin_mm)
+    w, h = x1 - x0 + grow, y1 - y0 + grow
+    cells = min(math.ceil(w / room[0]) * math.ceil(h / room[1]),
+                math.ceil(w / room[1]) * math.ceil(h / room[0]))
+    if cells > MAX_SECTIONS:
+        return Finding("jig-too-big", "error",
+                       f"the base plate would be at least {w:.0f} x {h:.0f} mm, about {cells} "
+                       f"sections of the {s.bed_mm[0]:.0f} x {s.bed_mm[1]:.0f} mm bed (the jig "
+                       f"stage cuts at most {MAX_SECTIONS}); use split = \"end-plates\" (only "
+                       "the plate's ends with the formers are cut) or a larger bed", e.name)
+    return None
+
+
+def _hull_plate(e: JigPiece, s: JigSettings, everything: list[Any],
+                items: list[Item]) -> Part | None:
+    """The plate as the convex outline of everything on it (shapely
+    geometries), grown by the margin: straight edges and true arcs of the
+    corner radius. Mounting holes go in the margin at the sharpest corners.
+    None when the outline degenerates."""
+    import shapely
+    from shapely.geometry import GeometryCollection, Point
     from shapely.geometry.polygon import orient
 
     tol = 0.5  # mm: simplifying the hull may cut inside it by this much
-    hull = orient(everything.convex_hull.simplify(tol), 1.0)
+    hull = orient(GeometryCollection(everything).convex_hull.simplify(tol), 1.0)
+    index = shapely.STRtree(everything)
     if hull.geom_type != "Polygon" or len(hull.exterior.coords) < 4:
         return None
     pts = [(float(x), float(y)) for x, y in hull.exterior.coords[:-1]]
@@ -232,7 +253,8 @@ def _hull_plate(e: JigPiece, s: JigSettings, everything: Any, items: list[Item])
         k = (s.margin_mm / 2) / (1.0 + n1[0] * n2[0] + n1[1] * n2[1])
         c = (pts[i][0] + k * (n1[0] + n2[0]), pts[i][1] + k * (n1[1] + n2[1]))
         if all(math.dist(c, h) > 6 * s.mounting_hole_mm for h in holes) and \
-                not everything.intersects(Point(c).buffer(s.mounting_hole_mm)):
+                not len(index.query(Point(c).buffer(s.mounting_hole_mm),
+                                    predicate="intersects")):
             holes.append(c)
         if len(holes) == 4:
             break

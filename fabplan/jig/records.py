@@ -16,7 +16,7 @@ from ..errors import Finding
 from ..forming.records import ElementForming
 from ..geometry.path import BendPath
 from ..lengths.records import BendRow, PieceCore
-from .shapes import Item, transform_shape
+from .shapes import Item, P, Text, transform_shape
 
 __all__ = ["JigPiece", "Part", "Placed", "Bed", "JigLayout"]
 
@@ -91,17 +91,30 @@ class Placed:
 
 @dataclass(frozen=True)
 class Bed:
+    """One machine bed: its parts, and the notes in the strip kept free for them
+    along its top edge (text placed in the bed's frame, mm). `status_at` are the
+    left ends of the baselines kept free above the notes for a line a renderer
+    may add (e.g. that the plan has errors), each of at most
+    `JigLayout.note_chars` characters of `JigLayout.note_height_mm`."""
+
     index: int  # 1-based
     width_mm: float
     height_mm: float
     parts: tuple[Placed, ...]
-    notes: tuple[str, ...] = ()
+    notes: tuple[Text, ...] = ()
+    status_at: tuple[P, ...] = ()
 
 
 @dataclass(frozen=True)
 class JigLayout:
+    """The beds of every piece's jig. `notes` are the notes every bed carries
+    (as text, also placed on each bed); `note_height_mm` and `note_chars` are
+    the notes' text height and line length on the beds."""
+
     title: str
     settings: JigSettings
     beds: tuple[Bed, ...]
     findings: tuple[Finding, ...]
     notes: tuple[str, ...] = ()
+    note_height_mm: float = 3.5
+    note_chars: int = 80

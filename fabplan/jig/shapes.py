@@ -26,11 +26,15 @@ from ..geometry.planar import (
     rounded_rect,
 )
 
-__all__ = ["P", "Op", "OPERATIONS", "Line", "Arc", "Circle", "Contour", "Text", "RefPoint",
-           "Item", "Segment", "Shape", "offset_contour", "rounded_rect", "contour_to_polygon",
-           "transform_shape", "clip_line_x", "clip_arc_x", "inside_corners"]
+__all__ = ["P", "Op", "OPERATIONS", "SAFE_CHAR_WIDTH", "Line", "Arc", "Circle", "Contour",
+           "Text", "RefPoint", "Item", "Segment", "Shape", "offset_contour", "rounded_rect",
+           "contour_to_polygon", "transform_shape", "clip_line_x", "clip_arc_x", "inside_corners"]
 
 Op = Literal["cut", "drill", "engrave", "reference", "notes"]
+# sans-serif capitals and figures run to about 0.8 of the text height per
+# character (common practice for sizing text boxes, no source; the tests
+# measure drawn text with ezdxf's own text extents)
+SAFE_CHAR_WIDTH = 0.8
 OPERATIONS: tuple[Op, ...] = ("cut", "drill", "engrave", "reference", "notes")
 
 
@@ -47,6 +51,13 @@ class Text:
     def width(self) -> float:
         """Estimated width (mm) for placement: 0.62 x height per character."""
         return 0.62 * self.height * len(self.text)
+
+    @property
+    def safe_width(self) -> float:
+        """A width (mm) the text does not exceed in a wide sans-serif face:
+        `SAFE_CHAR_WIDTH` x height per character; for keeping text inside a
+        part or a bed and clear of other things."""
+        return SAFE_CHAR_WIDTH * self.height * len(self.text)
 
 
 @dataclass(frozen=True)

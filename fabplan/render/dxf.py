@@ -2,9 +2,11 @@
 
 Reads a `JigLayout` (millimetres) and writes it in the drawing unit the shop
 asked for: $INSUNITS 4 (mm) or 1 (inch), every coordinate scaled to match.
-One layer per operation, each with its own colour; arcs are true ARC/CIRCLE
-entities or bulged LWPOLYLINE segments; closed contours are closed polylines.
-The same layout gives the same bytes (fixed header timestamps and GUIDs).
+One layer per operation, coloured from the table shared with the SVG writer
+(fabplan.render.operations); arcs are true ARC/CIRCLE entities or bulged
+LWPOLYLINE segments; closed contours are closed polylines. The notes are the
+bed's own, placed by the jig stage inside the bed. The same layout gives the
+same bytes (fixed header timestamps and GUIDs).
 """
 
 from __future__ import annotations
@@ -15,17 +17,12 @@ import math
 from ..jig.records import Bed, JigLayout
 from ..jig.shapes import Arc, Circle, Contour, Line, RefPoint, Text
 from ..units import IN
+from .operations import OPERATIONS, bed_notes
 
 __all__ = ["LAYERS", "INSUNITS", "bed_to_dxf"]
 
-# operation -> (layer name, ACI colour)
-LAYERS: dict[str, tuple[str, int]] = {
-    "cut": ("JIG_CUT", 1),  # red
-    "drill": ("JIG_DRILL", 5),  # blue
-    "engrave": ("JIG_ENGRAVE", 3),  # green
-    "reference": ("JIG_REFERENCE", 8),  # grey: do not machine
-    "notes": ("JIG_NOTES", 6),  # magenta: do not machine
-}
+# operation -> (layer name, ACI colour), from the table the SVG writer shares
+LAYERS: dict[str, tuple[str, int]] = {op: (o.layer, o.aci) for op, o in OPERATIONS.items()}
 # DXF $INSUNITS codes (DXF reference, header section): 1 inch, 4 millimetre
 INSUNITS = {"in": 1, "mm": 4}
 
@@ -44,20 +41,21 @@ def _bulge_points(c: Contour, k: float) -> list[tuple[float, float, float]]:
     return pts
 
 
-def bed_to_dxf(layout: JigLayout, bed: Bed) -> bytes:
-    """One bed of the layout as DXF bytes."""
+def bed_to_dxf(layout: JigLayout, bed: Bed, status: str = "") -> bytes:
+    """One bed of the layout as DXF bytes; `status` (e.g. that the plan has
+    errors) goes in the lines the bed keeps free above its notes."""
     import ezdxf
 
     old = ezdxf.options.write_fixed_meta_data_for_testing
     # fixed creation/update dates, GUIDs and ezdxf marker: same layout, same bytes
     ezdxf.options.write_fixed_meta_data_for_testing = True
     try:
-        return _bed_to_dxf(layout, bed)
+        return _bed_to_dxf(layout, bed, status)
     finally:
         ezdxf.options.write_fixed_meta_data_for_testing = old
 
 
-def _bed_to_dxf(layout: JigLayout, bed: Bed) -> bytes:
+def _bed_to_dxf(layout: JigLayout, bed: Bed, status: str) -> bytes:
     import ezdxf
 
     units = layout.settings.units
@@ -100,11 +98,9 @@ def _bed_to_dxf(layout: JigLayout, bed: Bed) -> bytes:
     w, h = bed.width_mm * k, bed.height_mm * k
     msp.add_lwpolyline([(0, 0), (w, 0), (w, h), (0, h)], close=True,
                        dxfattribs=attrs("reference"))
-    th = 5.0 * k
-    lines = [*layout.notes, *bed.notes]
-    for i, text in enumerate(reversed(lines)):
-        msp.add_text(text, height=th, dxfattribs={**attrs("notes"),
-                                                  "insert": (0.0, h + th * (1.5 + 1.8 * i))})
+    for sh in bed_notes(layout, bed, status):
+        msp.add_text(sh.text, height=sh.height * k,
+                     dxfattribs={**attrs("notes"), "insert": (sh.at[0] * k, sh.at[1] * k)})
     # register the CLASS records in a fixed order (ezdxf adds those of the
     # entity types in use from a set, whose order varies between runs)
     for dxftype in sorted(doc.entitydb.dxf_types_in_use()):

@@ -1,13 +1,13 @@
 """The jig drawings of a Plan: every bed as DXF and/or SVG.
 
 The jig itself is the Plan's (`Plan.jig`, laid out by the jig stage); this
-module only names the files and asks dxf.py and svg.py for their bytes. The
-same plan gives the same bytes.
+module only names the files and asks dxf.py and svg.py for their bytes, with a
+status line on every bed when the plan has errors (in the lines each bed keeps
+free for it). The same plan gives the same bytes.
 """
 
 from __future__ import annotations
 
-import dataclasses
 import re
 from pathlib import Path
 
@@ -47,14 +47,12 @@ def jig_files(plan: Plan, formats: tuple[str, ...] = FORMATS) -> dict[str, bytes
     if layout is None:
         return files
     errors = sum(f.severity == "error" for f in plan.findings)
-    if errors:
-        layout = dataclasses.replace(layout, notes=(
-            f"NOT BUILDABLE AS IT STANDS: the plan has {errors} error finding(s); written on "
-            "request (--with-errors)",) + layout.notes)
+    status = (f"NOT BUILDABLE AS IT STANDS: the plan has {errors} error finding(s); written on "
+              "request (--with-errors)") if errors else ""
     stem = _stem(plan)
     for bed in layout.beds:
         if "dxf" in formats:
-            files[f"{stem}-jig-{bed.index}.dxf"] = bed_to_dxf(layout, bed)
+            files[f"{stem}-jig-{bed.index}.dxf"] = bed_to_dxf(layout, bed, status)
         if "svg" in formats:
-            files[f"{stem}-jig-{bed.index}.svg"] = bed_to_svg(layout, bed)
+            files[f"{stem}-jig-{bed.index}.svg"] = bed_to_svg(layout, bed, status)
     return files

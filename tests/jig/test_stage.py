@@ -10,6 +10,7 @@ import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
 from shapely.geometry import LineString, Point, box
+from shapely.ops import unary_union
 
 from fabplan.design.jig import JigSettings
 from fabplan.jig.shapes import Circle, Contour, Text
@@ -219,9 +220,14 @@ def test_helix_gets_a_mandrel_and_a_pitch_guide(helix_plan):
     assert "jig-inside-corner" not in {f.code for f in laser.findings}
 
 
-def test_holes_smaller_than_the_router_bit_are_flagged(example_plan):
-    codes = {f.code for f in layout_jig(example_plan, JigSettings(tool_radius_mm=3.175)).findings}
-    assert "jig-hole-below-tool" in codes  # 6 mm pins under a 1/4 in bit
+def test_holes_smaller_than_the_router_bit_are_flagged_once(example_plan):
+    found = [f for f in layout_jig(example_plan, JigSettings(tool_radius_mm=3.175)).findings
+             if f.code == "jig-hole-below-tool"]
+    # 6 mm pins and 5 mm mounting holes under a 1/4 in bit: one finding names both
+    # and says what to do once
+    assert len(found) == 1
+    assert "pin (6.00 mm)" in found[0].message and "mounting (5.00 mm)" in found[0].message
+    assert found[0].message.count("drill") == 1
     codes = {f.code for f in layout_jig(example_plan, JigSettings(tool_radius_mm=1.0)).findings}
     assert "jig-hole-below-tool" not in codes
 
@@ -297,3 +303,192 @@ def test_the_plate_keeps_its_margin_round_everything(shape):
     if shape == "delta-loop":  # a triangle's plate is not a rectangle
         x0, y0, x1, y1 = outline.bounds
         assert outline.area < 0.87 * (x1 - x0) * (y1 - y0)
+
+
+# -- issue 15: a plate larger than the bed both ways ----------------------------------------
+def _parts(layout, kind):
+    return [pl.part for bed in layout.beds for pl in bed.parts if pl.part.kind == kind]
+
+
+def _text_boxes_inside(part):
+    """Every text of a part lies inside its outline (shapely), measured with a
+    width of 0.8 x height per character (wider than the text's own estimate)."""
+    for it in part.items:
+        t = it.shape
+        if isinstance(t, Text) and not t.rotation_deg:
+            boxed = box(t.at[0], t.at[1] - 0.3 * t.height, t.at[0] + 0.8 * t.height * len(t.text),
+                        t.at[1] + t.height)
+            assert part.outline.buffer(1e-6).contains(boxed), (part.name, t.text)
+
+
+def test_a_square_loop_too_big_both_ways_is_cut_into_a_grid(square_loop_plan):
+    s = JigSettings()  # the default 600 x 400 mm bed, no kerf
+    layout = layout_jig(square_loop_plan, s)
+    codes = {f.code: f for f in layout.findings}
+    assert not [f for f in layout.findings if f.severity == "error"]
+    _check_beds(layout)
+    sections = sorted(_parts(layout, "section"), key=lambda p: p.name)
+    assert len(sections) == 4  # 2 rows of 2: the plate is over 600 mm both ways
+    outlines = [p.outline for p in sections]
+    whole = unary_union(outlines)
+    # shapely: the sections tile the plate, a rounded rectangle, without overlaps
+    assert whole.geom_type == "Polygon" and not list(whole.interiors)
+    assert sum(o.area for o in outlines) == pytest.approx(whole.area, rel=1e-9)
+    for i in range(4):
+        for j in range(i + 1, 4):
+            assert outlines[i].intersection(outlines[j]).area < 1e-6
+    x0, y0, x1, y1 = whole.bounds
+    r = s.corner_radius_mm
+    plate = box(x0 + r, y0 + r, x1 - r, y1 - r).buffer(r, quad_segs=45)
+    assert whole.symmetric_difference(plate).area < 1e-3 * plate.area
+    assert min(x1 - x0, y1 - y0) > 600.0  # it did not fit either way
+    # every conductor line and hole of the uncut plate is on exactly one section
+    f = square_loop_plan.elements[0].piece.forming
+    bolts = [it for p in sections for it in p.items if it.role.startswith("bolt-hole")]
+    assert sorted(it.role for it in bolts) == sorted(f"bolt-hole {fm.label}" for fm in f.formers)
+    for p in sections:
+        _text_boxes_inside(p)
+    # the finding and the assembly key say which section goes next to which
+    msg = codes["jig-plate-split"].message
+    assert "2 row(s) of 2" in msg
+    for n, (a, b) in enumerate([(1, 2), (3, 4), (1, 3), (2, 4)], 1):
+        assert f"splice {n} joins sections {a} and {b}" in msg
+    key = _parts(layout, "key")
+    assert len(key) == 1 and all(it.op == "notes" for it in key[0].items)
+    assert "splice 4 joins sections 2 and 4" in " ".join(
+        it.shape.text for it in key[0].items if isinstance(it.shape, Text))
+
+
+def test_alignment_holes_line_up_across_every_seam(square_loop_plan):
+    s = JigSettings()
+    layout = layout_jig(square_loop_plan, s)
+    sections = {int(p.name.rsplit(" ", 1)[1]): p for p in _parts(layout, "section")}
+    splices = {int(p.name.rsplit(" ", 1)[1]): p for p in _parts(layout, "splice")}
+    assert sorted(splices) == [1, 2, 3, 4]
+    for n, (a, b) in enumerate([(1, 2), (3, 4), (1, 3), (2, 4)], 1):
+        role = f"align {n}"
+        ha = sorted(it.shape.centre for it in sections[a].items if it.role == role)
+        hb = sorted(it.shape.centre for it in sections[b].items if it.role == role)
+        assert len(ha) == len(hb) >= 1
+        # shapely: the seam is the edge the two sections share
+        seam = sections[a].outline.intersection(sections[b].outline)
+        assert seam.length > 100.0
+        across = (1, 0) if seam.bounds[0] == pytest.approx(seam.bounds[2]) else (0, 1)
+        for pa, pb in zip(ha, hb):
+            # each pair faces across the seam, the same distance either side
+            step = (pb[0] - pa[0], pb[1] - pa[1])
+            assert step[1 - across.index(1)] == pytest.approx(0.0, abs=1e-9)
+            assert step[across.index(1)] > 0
+            assert seam.distance(Point(pa)) == pytest.approx(seam.distance(Point(pb)), abs=1e-9)
+            assert Point(pa).within(sections[a].outline) and Point(pb).within(sections[b].outline)
+        # the splice plate is drilled to the same pattern (distances between its holes)
+        hs = [it.shape.centre for it in splices[n].items if it.role == role]
+        mine = sorted(round(math.dist(p, q), 6) for p in ha + hb for q in ha + hb)
+        assert sorted(round(math.dist(p, q), 6) for p in hs for q in hs) == mine
+        assert all(it.shape.radius == pytest.approx(s.bolt_hole_mm / 2)
+                   for it in splices[n].items if it.role == role)
+
+
+def test_a_square_loop_gets_end_plates_fixed_by_enough_bars(square_loop_plan):
+    import numpy as np
+
+    s = JigSettings(split="end-plates")
+    layout = layout_jig(square_loop_plan, s)
+    assert not [f for f in layout.findings if f.severity == "error"]
+    _check_beds(layout)
+    plates = _parts(layout, "end-plate")
+    bars = _parts(layout, "spacing-bar")
+    f = square_loop_plan.elements[0].piece.forming
+    assert len(plates) == len(f.formers) == 4  # one corner each
+    for p in plates:
+        _text_boxes_inside(p)
+    # every former's bolt hole is on one plate
+    held = {it.role.split()[1]: p.name for p in plates for it in p.items
+            if it.role.startswith("bolt-hole")}
+    assert sorted(held) == sorted(fm.label for fm in f.formers)
+    assert len(set(held.values())) == 4
+    # each bar is drilled at its formers' centre distance
+    centre = {fm.label: fm.centre_mm for fm in f.formers}
+    joints = []
+    for bar in bars:
+        holes = [it for it in bar.items if it.role.startswith("bolt-hole")]
+        la, lb = (it.role.split()[1] for it in holes)
+        assert math.dist(holes[0].shape.centre, holes[1].shape.centre) == pytest.approx(
+            math.dist(centre[la], centre[lb]), abs=1e-6)
+        joints.append((la, lb))
+    # the bars fix the plates' places: a framework of n joints in the plane is rigid
+    # with 2n - 3 independent bars, i.e. its rigidity matrix has rank 2n - 3
+    # (source: Asimow and Roth, "The rigidity of graphs", Trans. AMS 245, 1978; from memory)
+    labels = sorted(centre)
+    rows = []
+    for la, lb in joints:
+        row = np.zeros(2 * len(labels))
+        d = np.subtract(centre[la], centre[lb])
+        row[2 * labels.index(la):2 * labels.index(la) + 2] = d
+        row[2 * labels.index(lb):2 * labels.index(lb) + 2] = -d
+        rows.append(row)
+    assert len(bars) == 2 * 4 - 3
+    assert np.linalg.matrix_rank(np.array(rows)) == 2 * 4 - 3
+    msg = next(x.message for x in layout.findings if x.code == "jig-end-plates")
+    assert msg.count("joins end plates") == len(bars)
+
+
+def test_a_plate_beyond_every_bed_is_an_error_saying_what_to_change(hairpin):
+    from fabplan.design.read import parse_design
+    from fabplan.plan import make_plan
+
+    plan = make_plan(parse_design(hairpin(leg="3000 mm")))
+    layout = layout_jig(plan, JigSettings(bed_mm=(100.0, 100.0)))
+    big = [f for f in layout.findings if f.code == "jig-too-big"]
+    assert big and big[0].severity == "error"
+    assert "end-plates" in big[0].message and "larger bed" in big[0].message
+    assert not _parts(layout, "section")
+
+
+def test_the_pin_count_is_capped_before_any_work(long_plan):
+    # a pin every 0.001 mm would be 3.6 million pin holes (issue 15: it never ended)
+    layout = layout_jig(long_plan, JigSettings(pin_pitch_mm=0.001))
+    pins = [f for f in layout.findings if f.code == "jig-too-many-pins"]
+    assert pins and pins[0].severity == "error" and "pin_pitch" in pins[0].message
+    assert not _parts(layout, "plate") and not _parts(layout, "section")
+
+
+def test_the_bed_count_is_capped_before_packing():
+    from fabplan.jig.beds import MAX_BEDS, pack
+    from fabplan.jig.parts import calibration_parts
+
+    parts = calibration_parts() * 60  # 120 squares, one to a 120 mm bed
+    beds, found = pack(parts, JigSettings(bed_mm=(120.0, 120.0)))
+    assert not beds and [f.code for f in found] == ["jig-too-many-beds"]
+    beds, found = pack(parts[:MAX_BEDS - 2], JigSettings(bed_mm=(120.0, 120.0)))
+    assert len(beds) == MAX_BEDS - 2 and not found
+
+
+def test_the_helix_guide_notches_leave_the_stated_clearance(helix_plan):
+    # common practice, no source: a notch a little wider than the wire (0.5 mm by
+    # default) so that the wire drops in and the guide slides off the coil
+    d = helix_plan.elements[0].piece.conductor_diameter_mm
+    for clearance in (0.5, 1.0):
+        s = JigSettings(notch_clearance_mm=clearance)
+        guide = _parts(layout_jig(helix_plan, s), "pitch-guide")[0]
+        cut = next(it.shape for it in guide.items if it.op == "cut")
+        notches = [sg for sg in cut.segments if getattr(sg, "sweep_deg", 0) < 0]
+        assert notches and all(2 * sg.radius == pytest.approx(d + clearance) for sg in notches)
+        label = " ".join(it.shape.text for it in guide.items if isinstance(it.shape, Text))
+        assert f"+ {clearance:.2f} mm clearance" in label
+        assert f"{d + clearance:.2f} mm" in label
+        _text_boxes_inside(guide)
+
+
+def test_every_part_label_lies_on_its_part(example_plan, long_plan, helix_plan):
+    for plan in (example_plan, long_plan, helix_plan):
+        for split in ("sections", "end-plates"):
+            layout = layout_jig(plan, JigSettings(split=split))
+            for bed in layout.beds:
+                for pl in bed.parts:
+                    if pl.part.kind in ("plate", "section", "end-plate", "pitch-guide",
+                                        "splice"):
+                        for it in pl.part.items:
+                            t = it.shape
+                            if isinstance(t, Text) and it.role != "mark-label":
+                                assert pl.part.outline.contains(Point(t.at)), t.text
