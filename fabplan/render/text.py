@@ -75,7 +75,21 @@ def _piece_text(p: PiecePlan, gap_mm: float | None, L: Callable[[float], str],
     out.append(f"Cut length         {L(p.cut_length_mm)}")
     out.append(f"Mass (cut piece)   {p.mass_kg * 1000:.1f} g")
     out.append("")
-    out.append("Bend table (trade order from end A; lengths on the centreline)")
+    if not p.bends:
+        out.append("No bends: cut to length and mark; nothing to form.")
+        out.append("")
+    else:
+        out += _bend_table(p, L)
+    out.append("Marks on the straight stock (from the centre mark towards end A or B; "
+               "and from cut end A)")
+    rows = [[m.label, signed(m.from_centre_mm), L(m.from_end_mm)] for m in p.marks]
+    out.append(table(["mark", "from centre", "from end A"], rows, "lrr"))
+    out.append("")
+    return out
+
+
+def _bend_table(p: PiecePlan, L: Callable[[float], str]) -> list[str]:
+    out = ["Bend table (trade order from end A; lengths on the centreline)"]
     rows = [[str(b.index), L(b.straight_before_mm), format_angle(b.rotation_deg),
              format_angle(b.angle_deg), L(b.centreline_radius_mm)]
             + ([L(b.pitch_mm)] if b.pitch_mm else [])
@@ -86,11 +100,6 @@ def _piece_text(p: PiecePlan, gap_mm: float | None, L: Callable[[float], str],
         rows = [r + [""] * (len(head) - len(r)) for r in rows]
     out.append(table(head, rows, "lrrrr" + "r" * (len(head) - 5)))
     out.append(f"then {L(p.tail_straight_mm)} straight to end B")
-    out.append("")
-    out.append("Marks on the straight stock (from the centre mark towards end A or B; "
-               "and from cut end A)")
-    rows = [[m.label, signed(m.from_centre_mm), L(m.from_end_mm)] for m in p.marks]
-    out.append(table(["mark", "from centre", "from end A"], rows, "lrr"))
     out.append("")
     return out
 
@@ -123,7 +132,7 @@ def plan_to_text(plan: Plan) -> str:
                 out += [head, "." * len(head)]
             gap = e.feed_gap_mm if len(e.pieces) == 1 else piece.gap_mm
             out += _piece_text(piece, gap, L, signed)
-            if piece.forming is not None:
+            if piece.forming is not None and piece.bends:
                 out.append(forming_text(piece.forming, unit, den))
                 out.append("")
         if e.estimate is not None:
