@@ -17,6 +17,7 @@ Renderers read the Plan and nothing else.
 from __future__ import annotations
 
 import dataclasses
+from collections.abc import Sequence
 from dataclasses import dataclass
 
 from .design.forming import FormingSettings
@@ -62,6 +63,9 @@ class ElementPlan:
     pieces: tuple[PiecePlan, ...]
     estimate: ElementEstimate | None = None
     electrical: ElementElectrical | None = None
+    # errors in the element's shape (it cannot be made as given): no jig is laid
+    # out for it and no electrical model is made of it
+    shape_errors: tuple[Finding, ...] = ()
 
     @property
     def name(self) -> str:
@@ -162,10 +166,12 @@ def make_plan(design: Design) -> Plan:
     # geometry and core
     geometries = [element_geometry(design, spec) for spec in specs]
     cores: list[tuple[PieceCore, ...]] = []
-    for spec, geometry in zip(specs, geometries):
+    shape_errors: list[tuple[Finding, ...]] = []
+    for spec, geometry, ends in zip(specs, geometries, ends_found):
         pieces, found = plan_pieces(design, spec, geometry)
         cores.append(pieces)
         findings += found
+        shape_errors.append(tuple(f for f in [*ends, *found] if f.severity == "error"))
     # forming
     formed: list[tuple[PiecePlan, ...]] = []
     for spec, pieces, ends in zip(specs, cores, ends_found):
@@ -184,22 +190,34 @@ def make_plan(design: Design) -> Plan:
     findings += est.findings
     # jig
     jig = layout_jig(design.project, [JigPiece(_piece_name(spec, p), p, p.forming)
-                                      for spec, pieces in zip(specs, formed) for p in pieces
-                                      if p.forming is not None and p.bends],
+                                      for spec, pieces, bad in zip(specs, formed, shape_errors)
+                                      for p in pieces
+                                      if p.forming is not None and p.bends and not bad],
                      design.jig or JigSettings())
     findings += jig.findings
-    # electrical
+    # electrical: a model of a shape that cannot be made means nothing
     checked: tuple[ElementElectrical | None, ...] = (None,) * len(specs)
     plan_electrical = None
-    if design.electrical is not None:
+    if design.electrical is not None and any(shape_errors):
+        findings.append(electrical_not_run(specs, shape_errors))
+    elif design.electrical is not None:
         inputs = [electrical_input(design, spec, geometry, pieces)
                   for spec, geometry, pieces in zip(specs, geometries, formed)]
         checked, plan_electrical, em_found = electrical(inputs, design.electrical)
         findings += em_found
     elements = tuple(ElementPlan(*parts) for parts in zip(specs, geometries, formed,
-                                                          est.elements, checked))
+                                                          est.elements, checked, shape_errors))
     return Plan(design, stock_summary(design.stock), elements, tuple(findings), est.order, jig,
                 plan_electrical)
+
+
+def electrical_not_run(specs: Sequence[ElementSpec],
+                       shape_errors: Sequence[tuple[Finding, ...]]) -> Finding:
+    """The finding that says why the electrical check was not run."""
+    bad = [spec.name for spec, errs in zip(specs, shape_errors) if errs]
+    return Finding("em-not-run", "info",
+                   "electrical check not run: the shape of " + ", ".join(bad)
+                   + " cannot be made as given (see the errors); fix it first")
 
 
 def _piece_name(spec: ElementSpec, piece: PieceCore) -> str:
@@ -217,7 +235,7 @@ def electrical_input(design: Design, spec: ElementSpec, geometry: ElementGeometr
 def jig_pieces(plan: Plan) -> list[JigPiece]:
     """Every piece of the plan that gets a jig (it has bends and forming figures)."""
     return [JigPiece(e.piece_name(p), p, p.forming) for e in plan.elements for p in e.pieces
-            if p.forming is not None and p.bends]
+            if p.forming is not None and p.bends and not e.shape_errors]
 
 
 def jig_for(plan: Plan, settings: JigSettings) -> JigLayout:

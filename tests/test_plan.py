@@ -143,3 +143,39 @@ feed_gap = "10 mm"
     assert not any(f.code == "ends-do-not-meet" for f in good.findings)
     bad = plan_of(base.format(tail="60 mm"))
     assert any(f.code == "ends-do-not-meet" for f in bad.findings)
+
+
+IMPOSSIBLE_CORNERS = """
+[stock]
+diameter = "4 mm"
+material = "cu-c11000-annealed"
+[[element]]
+name = "square"
+shape = "rect-loop"
+side = "300 mm"
+corner_radius = "400 mm"
+feed_gap = "10 mm"
+[electrical]
+target = "300 MHz"
+"""
+
+
+def test_a_shape_that_cannot_be_made_stops_before_jig_and_model():
+    """Issue 15: an impossible corner radius still ran the electrical model (and
+    reported a segment 7e-14 mm long). The plan stops at the geometry error."""
+    p = plan_of(IMPOSSIBLE_CORNERS)
+    e = p.elements[0]
+    assert {f.code for f in e.shape_errors} >= {"corner-radius-too-large"}
+    assert e.electrical is None and p.electrical is None
+    assert any(f.code == "em-not-run" for f in p.findings)
+    assert not any(f.code.startswith(("jig-", "em-seg", "em-mesh")) for f in p.findings)
+    assert not p.jig.beds or all(not b.parts for b in p.jig.beds)
+
+
+def test_sweep_of_a_shape_that_cannot_be_made_is_one_line(cli, write_design):
+    path = write_design(IMPOSSIBLE_CORNERS)
+    for command in ("sweep", "tune"):
+        r = cli(command, path, check_exit=2)
+        assert r.stdout == ""
+        line, = r.stderr.strip().splitlines()
+        assert "element 'square'" in line and "cannot be made" in line

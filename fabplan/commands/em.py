@@ -39,9 +39,16 @@ def _core_plan(design: Any) -> Any:
     """The plan with every stage but the electrical one (which the command runs itself)."""
     import dataclasses
 
+    from ..errors import DesignError
     from ..plan import make_plan
 
-    return make_plan(dataclasses.replace(design, electrical=None))
+    plan = make_plan(dataclasses.replace(design, electrical=None))
+    for e in plan.elements:
+        if e.shape_errors:
+            raise DesignError(f"cannot be made as given, so it has no electrical model: "
+                              f"{e.shape_errors[0].message} (`fabplan check` lists every "
+                              "error)", field=f"element {e.name!r}", source=design.source)
+    return plan
 
 
 def _frequency(text: str | None, option: str, default: float | None) -> float | None:
