@@ -43,6 +43,7 @@ def test_readme_says_how_to_run_and_use_the_command():
     head = " ".join(text.split("## Using it")[0].split())
     assert ".venv/bin/fabplan --help" in head and ". .venv/bin/activate" in head
     assert re.search(r"The tests take about \d+ s(econds)? on a two-core machine", head)
+    assert re.search(r"about \d+ s of processor time", head)
     for needle in ("fabplan --version", "--with-errors", "fabplan -q COMMAND",
                    "fabplan -v COMMAND", "`-vv`", "fabplan new hairpin -o - | fabplan plan -",
                    "--csv -", "docs/plan-json.md", "130 interrupted"):

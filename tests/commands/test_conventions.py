@@ -20,49 +20,60 @@ from fabplan.geometry.shapes import SHAPES
 FOLDED = resources.files("fabplan").joinpath("templates", "folded-dipole.toml").read_text("utf-8")
 
 
+@pytest.fixture
+def priced(write_design, uncomment_template):
+    """A folded dipole with [forming], [purchase] and [jig] but no [electrical] (a
+    quick plan): the folded-dipole template with those tables switched on."""
+    import tomlkit
+
+    doc = tomlkit.parse(uncomment_template(FOLDED))
+    del doc["electrical"]
+    return write_design(tomlkit.dumps(doc), "priced.toml")
+
+
 def _no_dash_file(folder) -> None:
     """Nothing was written under the literal name `-`."""
     assert not (folder / "-").exists()
 
 
 # -- `-` for standard input ------------------------------------------------------------------
-def test_plan_reads_the_design_from_standard_input(cli, example_path, tmp_path):
-    text = example_path.read_text(encoding="utf-8")
+def test_plan_reads_the_design_from_standard_input(cli, priced, tmp_path):
+    text = priced.read_text(encoding="utf-8")
     piped = json.loads(cli("plan", "--json", "-", input=text, check_exit=0).stdout)
-    direct = json.loads(cli("plan", "--json", example_path, check_exit=0).stdout)
-    assert piped["source"] == "<stdin>" and direct["source"] == str(example_path)
+    direct = json.loads(cli("plan", "--json", priced, check_exit=0).stdout)
+    assert piped["source"] == "<stdin>" and direct["source"] == str(priced)
     piped["source"] = direct["source"]
     assert piped == direct
     assert cli("plan", "-", input=text, check_exit=0).stdout == \
-        cli("plan", example_path, check_exit=0).stdout
+        cli("plan", priced, check_exit=0).stdout
 
 
 @pytest.mark.parametrize("command", [("check",), ("estimate",), ("estimate", "--json")])
-def test_every_design_argument_takes_standard_input(cli, example_path, command):
-    text = example_path.read_text(encoding="utf-8")
+def test_every_design_argument_takes_standard_input(cli, priced, command):
+    text = priced.read_text(encoding="utf-8")
     piped = cli(command[0], "-", *command[1:], input=text, check_exit=0)
-    direct = cli(command[0], example_path, *command[1:], check_exit=0)
-    assert piped.stdout.replace("<stdin>", str(example_path)) == direct.stdout
+    direct = cli(command[0], priced, *command[1:], check_exit=0)
+    assert piped.stdout.replace("<stdin>", str(priced)) == direct.stdout
     assert piped.stderr == direct.stderr == ""
 
 
-def test_compare_takes_either_design_from_standard_input(cli, example_path):
-    text = example_path.read_text(encoding="utf-8")
-    direct = json.loads(cli("compare", example_path, example_path, "--json",
+def test_compare_takes_either_design_from_standard_input(cli, priced):
+    text = priced.read_text(encoding="utf-8")
+    direct = json.loads(cli("compare", priced, priced, "--json",
                             check_exit=0).stdout)
-    for args in (("-", example_path), (example_path, "-")):
+    for args in (("-", priced), (priced, "-")):
         piped = json.loads(cli("compare", *args, "--json", input=text, check_exit=0).stdout)
         which = "a" if args[0] == "-" else "b"
         assert piped[which]["design"] == "<stdin>"
-        piped[which]["design"] = str(example_path)
+        piped[which]["design"] = str(priced)
         assert piped == direct
 
 
-def test_sheet_reads_standard_input_and_names_it(cli, example_path, tmp_path):
+def test_sheet_reads_standard_input_and_names_it(cli, priced, tmp_path):
     out = tmp_path / "sheet.pdf"
-    cli("sheet", "-", "-o", out, input=example_path.read_bytes(), check_exit=0)
+    cli("sheet", "-", "-o", out, input=priced.read_bytes(), check_exit=0)
     with pdfplumber.open(out) as pdf:
-        assert "Hillcrest" in pdf.pages[0].extract_text()
+        assert "My folded dipole" in pdf.pages[0].extract_text()
 
 
 def test_a_bad_design_on_standard_input_is_one_line_naming_stdin(cli):
@@ -72,8 +83,8 @@ def test_a_bad_design_on_standard_input_is_one_line_naming_stdin(cli):
     assert len(lines) == 1 and lines[0].startswith("fabplan: error: <stdin>: not valid TOML")
 
 
-def test_compare_takes_only_one_design_from_standard_input(cli, example_path):
-    proc = cli("compare", "-", "-", input=example_path.read_text(encoding="utf-8"))
+def test_compare_takes_only_one_design_from_standard_input(cli, priced):
+    proc = cli("compare", "-", "-", input=priced.read_text(encoding="utf-8"))
     assert proc.returncode == 2 and "only one design" in proc.stderr
     assert len(proc.stderr.strip().splitlines()) == 1
 
@@ -87,17 +98,17 @@ def test_new_writes_to_standard_output_with_dash(cli, tmp_path):
     _no_dash_file(tmp_path)
 
 
-def test_estimate_csv_to_standard_output(cli, example_path, tmp_path):
+def test_estimate_csv_to_standard_output(cli, priced, tmp_path):
     file = tmp_path / "cuts.csv"
-    report = cli("estimate", example_path, "--csv", file, check_exit=0).stdout
-    proc = cli("estimate", example_path, "--csv", "-", cwd=tmp_path, check_exit=0)
+    report = cli("estimate", priced, "--csv", file, check_exit=0).stdout
+    proc = cli("estimate", priced, "--csv", "-", cwd=tmp_path, check_exit=0)
     _no_dash_file(tmp_path)
     # the CSV alone on standard output (what a pipe gets), the report on standard error
     assert proc.stdout == file.read_text(encoding="utf-8")
     rows = list(csv.DictReader(io.StringIO(proc.stdout)))  # the csv module reads it back
-    assert len([r for r in rows if r["element"] != "(remnant)"]) == 7
+    assert len([r for r in rows if r["element"] != "(remnant)"]) == 2  # 1 and a spare
     assert proc.stderr == report
-    refused = cli("estimate", example_path, "--csv", "-", "--json")
+    refused = cli("estimate", priced, "--csv", "-", "--json")
     assert refused.returncode == 2 and "--csv" in refused.stderr and refused.stdout == ""
 
 
@@ -123,9 +134,9 @@ def test_tune_writes_the_tuned_design_to_standard_output(cli, write_design,
     assert "tuned design: side = " in proc.stderr and "CAUTION" in proc.stderr
 
 
-def test_sheet_and_template_write_pdf_to_standard_output(cli, example_path, tmp_path):
+def test_sheet_and_template_write_pdf_to_standard_output(cli, priced, tmp_path):
     for command in ("sheet", "template"):
-        proc = cli(command, example_path, "-o", "-", cwd=tmp_path, check_exit=0)
+        proc = cli(command, priced, "-o", "-", cwd=tmp_path, check_exit=0)
         assert proc.stdout_bytes.startswith(b"%PDF") and proc.stderr == ""
         with pdfplumber.open(io.BytesIO(proc.stdout_bytes)) as pdf:
             assert len(pdf.pages) >= 1
@@ -133,8 +144,8 @@ def test_sheet_and_template_write_pdf_to_standard_output(cli, example_path, tmp_
 
 
 @pytest.mark.parametrize("command", ["build", "jig"])
-def test_a_set_of_files_cannot_go_to_standard_output(cli, example_path, tmp_path, command):
-    proc = cli(command, example_path, "-o", "-", cwd=tmp_path)
+def test_a_set_of_files_cannot_go_to_standard_output(cli, priced, tmp_path, command):
+    proc = cli(command, priced, "-o", "-", cwd=tmp_path)
     assert proc.returncode == 2 and proc.stdout == ""
     lines = proc.stderr.strip().splitlines()
     assert len(lines) == 1 and "give a folder" in lines[0]
@@ -156,11 +167,11 @@ def _writing_commands(example, design, tmp):
 
 
 def test_wrote_lines_go_to_standard_error_and_q_silences_them(
-        cli, example_path, write_design, swept_folded_dipole_toml, tmp_path):
+        cli, priced, write_design, swept_folded_dipole_toml, tmp_path):
     design = write_design(swept_folded_dipole_toml)
     for quiet, folder in ((False, tmp_path / "loud"), (True, tmp_path / "quiet")):
         folder.mkdir()
-        for args in _writing_commands(example_path, design, folder):
+        for args in _writing_commands(priced, design, folder):
             proc = cli(*(("-q",) if quiet else ()), *args, check_exit=0)
             assert "wrote" not in proc.stdout, args
             written = [ln for ln in proc.stderr.splitlines() if ln.startswith("wrote ")]
@@ -244,10 +255,10 @@ def test_completion_lists_the_shapes_and_the_commands(cli):
     assert {"plan", "check", "build", "jig", "sweep", "tune", "new"} <= set(commands)
 
 
-def test_a_bad_choice_is_one_line_exit_2(cli, example_path, tmp_path):
-    for args in (("jig", example_path, "-o", tmp_path / "j", "--format", "dxf,pdf"),
-                 ("jig", example_path, "-o", tmp_path / "j", "--units", "cm"),
-                 ("tune", example_path, "--for", "swr")):
+def test_a_bad_choice_is_one_line_exit_2(cli, priced, tmp_path):
+    for args in (("jig", priced, "-o", tmp_path / "j", "--format", "dxf,pdf"),
+                 ("jig", priced, "-o", tmp_path / "j", "--units", "cm"),
+                 ("tune", priced, "--for", "swr")):
         proc = cli(*args)
         assert proc.returncode == 2 and proc.stdout == ""
         lines = proc.stderr.strip().splitlines()
