@@ -723,11 +723,13 @@ class Comparison:
 
 @dataclass(frozen=True)
 class Measurement:
-    """What `measure` found: the comparison, and the correction (None when the
-    design has no target)."""
+    """What `measure` found: the comparison, and the correction (None when there
+    is no target, or the sweep shows no feature to correct from: `note` says
+    why)."""
 
     comparison: Comparison
     correction: ArticleCorrection | None
+    note: str = ""
 
 
 def _model_sweep(model: Any, freqs: npt.NDArray[np.float64]) -> npt.NDArray[np.complex128]:
@@ -757,7 +759,8 @@ def _figures(measured: SweepAnalysis, predicted: SweepAnalysis, target: float | 
              p_z: npt.NDArray[np.complex128]) -> tuple[Figure, ...]:
     out: list[Figure] = []
     mr, pr = measured.resonance, predicted.resonance
-    why = "" if mr is not None else measured.resonance_note
+    why = "" if mr is not None else ("no phase measured" if m_z is None else
+                                     "none in the sweep")
     out.append(Figure("resonance (X = 0)", "Hz",
                       None if mr is None else mr.frequency_hz,
                       None if mr is None else mr.frequency_unc_hz,
@@ -852,7 +855,7 @@ def measure(plan: Plan, element: ElementPlan, settings: ElectricalSettings,
         _figures(m_an, p_an, target, f, m_swr, z_el, p_swr, z_pred), de.removed,
         de.sweep.plane, de.left, de.findings, dropped, sweep.has_phase)
     if target is None:
-        return Measurement(comparison, None)
+        return Measurement(comparison, None, "no target: nothing to correct towards")
     goal = _feature(goal_name, chain)
     found: list[tuple[Feature, float, float]] = []
     res = m_an.resonance
@@ -862,9 +865,11 @@ def measure(plan: Plan, element: ElementPlan, settings: ElectricalSettings,
         ls = m_an.least_swr
         found.append((Feature("least-swr", reading), ls.frequency_hz, ls.frequency_unc_hz))
     if not found:
-        raise DesignError("the sweep shows neither a resonance nor a least SWR inside it "
-                          f"({m_an.resonance_note or 'least SWR at the sweep end'}): sweep a "
-                          "wider span around the target", field="sweep", source=src)
+        why = m_an.resonance_note or "X crosses zero only from inductive to capacitive"
+        return Measurement(comparison, None,
+                           f"no correction: the sweep shows no resonance ({why}) and its least "
+                           "SWR lies at an end of the sweep; sweep a wider span around the "
+                           "target")
     measured, f_meas, f_unc = next((x for x in found if x[0] == goal), found[0])
     correction = correct(plan, element, settings, measured, f_meas, target, goal,
                          measured_unc_hz=f_unc, dimensions=dimensions, evaluator=ev)

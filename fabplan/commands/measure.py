@@ -218,11 +218,13 @@ def measurement_for_build(plan: Any, measured: str | None, reading: Mapping[str,
             raise DesignError(f"--{given[0].replace('_', '-')} describes the sweep of "
                               "--measured SWEEP", field=f"--{given[0].replace('_', '-')}")
         return None
-    from ..tuning import fed_element
-
     settings = _electrical(plan.design)
-    return _measurement(plan, fed_element(plan, None), settings, measured, reading, None,
-                        None)
+    fed = [e for e in plan.elements if e.feed_gap_mm is not None]
+    if len(fed) != 1:
+        raise DesignError("the build sheet compares a sweep of the one fed element: compare "
+                          "several with `fabplan measure --element NAME --pdf`",
+                          field="--measured", value=measured)
+    return _measurement(plan, fed[0], settings, measured, reading, None, None)
 
 
 def predicted_files(plan: Any) -> dict[str, bytes]:
@@ -376,7 +378,9 @@ def measure(design: Path, sweep_arg: str | None, target: str | None, tune_for: s
     if sweep_arg is not None:
         result = _measurement(plan, element, settings, sweep_arg, reading, target_hz, goal)
         lines += text.comparison_lines(result.comparison)
-        if result.correction is not None:
+        if result.correction is None:
+            lines += ["", result.note]
+        else:
             lines += [""] + text.correction_lines(result.correction, d)
             chosen = result.correction.correction(adjust)
             if record and hist_path is not None:

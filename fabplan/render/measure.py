@@ -87,6 +87,8 @@ def comparison_lines(c: Comparison) -> list[str]:
                   f"frequencies +-{100 * c.uncertainty_frac:.1f} %)"]
     rows = [figure_cells(x) for x in c.figures]
     lines.append(table(["figure", "measured", "predicted", "difference"], rows, "lrrr"))
+    if c.has_phase and c.measured.resonance_note:
+        lines.append(f"  measured resonance: {c.measured.resonance_note}")
     if c.target_hz is not None:
         lines.append(f"  target {format_frequency(c.target_hz)}")
     if c.findings:

@@ -177,19 +177,32 @@ def test_a_csv_without_its_columns_or_unit_is_refused(cli, tmp_path):
     assert r.returncode == 2 and "--frequency-unit" in r.stderr
 
 
-def test_every_data_format_and_unit_gives_the_same_correction(cli, tmp_path):
-    """The same sweep written in RI and Hz, and in DB and GHz (the Touchstone
-    specification's formats; MA in kHz is the other tests' file) gives the same comparison
-    and correction."""
+def test_every_data_format_and_unit_reads_the_article_alike(tmp_path):
+    """The article written in RI, MA and DB, in Hz, kHz, MHz and GHz, version 1.1 and 2.0
+    (the Touchstone specification's formats and units) reads to the same sweep and the same
+    figures (the other tests feed `measure` the MA/kHz file)."""
+    from fabplan.measure import analyse
+    from fabplan.measuring import read_sweep_text
+
     design = _design(tmp_path)
-    outs = []
-    for fmt, unit in (("RI", "Hz"), ("DB", "GHz")):
-        sweep = tmp_path / f"a-{fmt}.s1p"
-        sweep.write_text(_article(design, fmt=fmt, unit=unit), encoding="ascii")
-        r = cli("measure", design, sweep)
-        assert r.returncode == 0, r.stderr
-        outs.append(r.stdout.replace(sweep.name, "SWEEP"))
-    assert outs[0] == outs[1]
+    model, d = _model(design, SIDE_MM * (1 + LONGER))
+    s11 = gamma_from_z(embed(FREQS, model.sweep(FREQS),
+                             [from_matching(d.electrical.chain.matching)]), 50.0)
+    sweeps = []
+    for fmt, unit, version in (("RI", "Hz", "1.1"), ("MA", "kHz", "2.0"), ("DB", "MHz", "1.1"),
+                               ("RI", "GHz", "2.0")):
+        text = write_touchstone(FREQS, s11, 50.0, data_format=fmt, frequency_unit=unit,
+                                version=version)
+        sweeps.append(read_sweep_text(text, f"a-{fmt}-{unit}.s1p"))
+    for s in sweeps:
+        np.testing.assert_allclose(s.freq_hz, FREQS, rtol=1e-15)
+        np.testing.assert_allclose(s.s11, s11, rtol=1e-12, atol=1e-15)
+    figures = [analyse(s) for s in sweeps]
+    for a in figures[1:]:
+        assert a.resonance.frequency_hz == pytest.approx(figures[0].resonance.frequency_hz,
+                                                         rel=1e-12)
+        assert a.least_swr.frequency_hz == pytest.approx(figures[0].least_swr.frequency_hz,
+                                                         rel=1e-12)
 
 
 def test_the_comparison_page_is_written(cli, tmp_path):

@@ -161,6 +161,8 @@ def comparison_section(ctx: Context, m: Measurement, page_break: bool = True) ->
                      caption="Frequencies in MHz or kHz, impedances in ohm; +- the uncertainty "
                              "from the sweep's step and noise.")
     r = m.correction
+    if r is None and m.note:
+        out.append(ctx.p(m.note, ctx.small))
     if r is not None:
         out.append(ctx.p(f"Correction for the next cut: the {r.goal.name} onto "
                          f"{format_frequency(r.target_hz)}", ctx.h3))
