@@ -390,8 +390,12 @@ def measure(design: Path, sweep_arg: str | None, target: str | None, tune_for: s
                 lines += ["", text.recorded_line(rec, str(hist_path))]
     elif any(reading.get(k) not in (None, (), "fitted") for k in _READING_KEYS):
         raise DesignError("the sweep options describe SWEEP: give it", field="SWEEP")
-    lines += [""] + text.history_lines(
-        measuring.history_status(records, element.name, goal, target_hz), str(hist_path))
+    if hist_path is None:
+        lines += ["", "History: none for a design read from standard input (--history FILE "
+                      "keeps one)"]
+    else:
+        lines += [""] + text.history_lines(
+            measuring.history_status(records, element.name, goal, target_hz), str(hist_path))
     if apply_history:
         summary = summarize(records, feature="resonance" if goal == "resonance"
                             else "least-swr", element=element.name)

@@ -167,6 +167,17 @@ def test_a_csv_of_swr_only_corrects_from_least_swr(cli, tmp_path):
     assert abs(got / 440e6 - 1) < UNCERTAINTY_FRAC
 
 
+def test_the_sweep_from_standard_input_and_the_design_to_standard_output(cli, tmp_path):
+    design = _design(tmp_path)
+    r = cli("measure", design, "-", "-o", "-", input=_article(design))
+    assert r.returncode == 0, r.stderr
+    assert r.stdout.startswith("# a synthetic first article")  # the corrected design
+    assert "sweep: <stdin>" in r.stderr and "corrected design: side" in r.stderr
+    from fabplan.design.read import parse_design
+
+    assert parse_design(r.stdout).elements[0].params.length_mm < SIDE_MM
+
+
 def test_a_csv_without_its_columns_or_unit_is_refused(cli, tmp_path):
     design = _design(tmp_path)
     sweep = tmp_path / "a.csv"
