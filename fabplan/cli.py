@@ -18,7 +18,7 @@ from typing import Any
 import click
 
 from . import __version__
-from .commands import core, em, estimate, jig, output
+from .commands import core, em, estimate, jig, measure, output
 from .commands.base import EXIT_INTERRUPTED, interrupted, set_verbosity
 
 __all__ = ["main"]
@@ -78,7 +78,7 @@ def main(quiet: bool, verbose: int, debug: bool) -> None:
     set_verbosity(click.get_current_context(), quiet=quiet, verbose=verbose)
 
 
-for _module in (core, estimate, em, output, jig):
+for _module in (core, estimate, em, measure, output, jig):
     for _command in _module.COMMANDS:
         main.add_command(_command)
 

@@ -21,6 +21,7 @@ from .base import (
     output_path,
     write_one_text,
 )
+from .measure import SINGLE_KINDS, write_corrected
 
 __all__ = ["COMMANDS", "sweep", "tune"]
 
@@ -68,16 +69,27 @@ def _frequency(text: str | None, option: str, default: float | None) -> float | 
               type=click.Path(dir_okay=False, allow_dash=True, path_type=Path),
               help="Also write every point to this CSV file (Hz, ohm; `-`: standard output, "
                    "and the report goes to standard error).")
-@click.option("--force", is_flag=True, help="Replace an existing CSV file.")
+@click.option("--s1p", "s1p_path",
+              type=click.Path(dir_okay=False, allow_dash=True, path_type=Path),
+              help="Also write the predicted sweep as a Touchstone .s1p file (S11 against the "
+                   "system impedance), to overlay in an analyser's software (`-`: standard "
+                   "output, and the report goes to standard error).")
+@click.option("--s1p-plane", type=click.Choice(["radio", "element"]), default="radio",
+              show_default=True,
+              help="Where the .s1p is: at the radio end of the matching and feed line, or "
+                   "at the element's terminals.")
+@click.option("--force", is_flag=True, help="Replace an existing CSV or .s1p file.")
 @guarded
 def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None,
-          element_name: str | None, csv_path: Path | None, force: bool) -> None:
+          element_name: str | None, csv_path: Path | None, s1p_path: Path | None,
+          s1p_plane: str, force: bool) -> None:
     """Sweep each fed element's impedance and SWR through the matching, with the
     antenna's gain and front-to-back at each frequency."""
     import dataclasses
 
     from ..design.electrical import check_sweep
     from ..em.stage import electrical
+    from ..errors import DesignError
     from ..plan import electrical_input
     from ..render.csv import sweep_csv
     from ..render.text import (
@@ -88,7 +100,11 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     )
     from ..tuning import fed_element
 
+    if is_dash(csv_path) and is_dash(s1p_path):
+        raise DesignError("only one of --csv and --s1p can go to standard output",
+                          field="--s1p", value="-")
     check_output(csv_path, force, "--csv")
+    check_output(s1p_path, force, "--s1p")
     d = load_design_file(design)
     settings = _settings(d)
     lo = _frequency(f_from, "--from", settings.sweep_from_hz) or settings.sweep_from_hz
@@ -121,7 +137,16 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     out += findings_lines(found) or ["No findings: every check passed."]
     if csv_path is not None:
         write_one_text(csv_path, sweep_csv(sweeps), force, "--csv")
-    click.echo("\n".join(out), err=is_dash(csv_path))
+    if s1p_path is not None:
+        from ..measuring import predicted_s1p
+
+        if len(sweeps) != 1:
+            raise DesignError("a .s1p file holds one port: choose the element with --element",
+                              field="--s1p")
+        name, result = sweeps[0]
+        write_one_text(s1p_path, predicted_s1p(result, settings.chain, name, s1p_plane), force,
+                       "--s1p")
+    click.echo("\n".join(out), err=is_dash(csv_path) or is_dash(s1p_path))
 
 
 @click.command()
@@ -129,8 +154,14 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
 @click.option("--target", "target", metavar="FREQ",
               help="Frequency to tune to (default: [electrical] target).")
 @click.option("--measured", "measured", metavar="FREQ",
-              help="Where the first article's SWR was measured least: report the change in "
-                   "length for the next build instead of tuning the model.")
+              help="A frequency measured on the first article (say which with --kind): "
+                   "report the change in length for the next build instead of tuning the "
+                   "model.")
+@click.option("--kind", "measured_kind", type=click.Choice(SINGLE_KINDS),
+              help="What --measured is: resonance (X = 0 at the element's terminals), "
+                   "least-swr (where the SWR read least through the matching) or "
+                   "analyser-x0 (where the analyser read X = 0 through the matching and "
+                   "feed line). Required with --measured: it is never guessed.")
 @click.option("--for", "tune_for", type=click.Choice(["least-swr", "resonance"]),
               help="Put least SWR (default: [electrical] tune_for) or resonance on target.")
 @click.option("--element", "element_name", metavar="NAME",
@@ -139,19 +170,25 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
              "when it is `-`")
 @click.option("--force", is_flag=True, help="Replace an existing output file.")
 @guarded
-def tune(design: Path, target: str | None, measured: str | None, tune_for: str | None,
-         element_name: str | None, output: Path | None, force: bool) -> None:
+def tune(design: Path, target: str | None, measured: str | None, measured_kind: str | None,
+         tune_for: str | None, element_name: str | None, output: Path | None,
+         force: bool) -> None:
     """Find the element length that puts least SWR (or resonance) on target."""
     from .. import tuning
     from ..design.rewrite import rewrite_element
     from ..em.stage import plan_electrical
     from ..errors import DesignError
-    from ..render.tuning import measured_text, tune_text
+    from ..render.tuning import tune_text
 
+    if measured is not None and measured_kind is None:
+        raise DesignError("say what the measured frequency is: --kind resonance (X = 0 at the "
+                          "element's terminals), least-swr (where the SWR was least) or "
+                          "analyser-x0 (where the analyser read X = 0); it is never guessed",
+                          field="--kind")
+    if measured_kind is not None and measured is None:
+        raise DesignError("--kind says what --measured FREQ is: give --measured",
+                          field="--kind", value=measured_kind)
     if output is not None:
-        if measured is not None:
-            raise DesignError("-o writes a tuned design from --target; with --measured, change "
-                              "the length by the reported figure", field="--output")
         check_output(output, force)
     d = load_design_file(design)
     settings = _settings(d)
@@ -161,10 +198,16 @@ def tune(design: Path, target: str | None, measured: str | None, tune_for: str |
     measured_hz = _frequency(measured, "--measured", None)
     plan = _core_plan(d)
     element = tuning.fed_element(plan, element_name)
-    if measured_hz is not None:
-        m = tuning.from_measurement(plan, element, settings, measured_hz, target_hz,
-                                    tune_for=tune_for)
-        lines = measured_text(m, d)
+    if measured_hz is not None and measured_kind is not None:
+        from ..measuring import correct_single
+        from ..render.measure import correction_lines
+
+        m = correct_single(plan, element, settings, measured_kind, measured_hz, target_hz,
+                           tune_for=tune_for)
+        lines = correction_lines(m, d)
+        if output is not None:
+            lines += ["", write_corrected(design, d, plan, element, settings, m.corrections[0],
+                                          output, force)]
     else:
         r = tuning.tune(plan, element, settings, target_hz, tune_for=tune_for)
         lines = tune_text(r, d, settings)

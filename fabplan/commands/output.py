@@ -2,9 +2,11 @@
 
 `build` writes everything for one design into a folder, all or nothing: the
 plan as JSON, the jig drawings (DXF and SVG), the PDF build sheet, the
-full-scale template and, when the electrical check has run, its sweep as CSV.
-A plan with error findings writes nothing unless --with-errors is given (the
-outputs then say so). The same design gives the same bytes.
+full-scale template and, when the electrical check has run, its sweep as CSV
+and as a Touchstone .s1p; with --measured SWEEP the sheet compares the first
+article with the prediction. A plan with error findings writes nothing unless
+--with-errors is given (the outputs then say so). The same design gives the same
+bytes.
 """
 
 from __future__ import annotations
@@ -32,6 +34,7 @@ from .base import (
     write_one_bytes,
     wrote,
 )
+from .measure import PREDICTED_NAME, measured_option, measurement_for_build, predicted_files
 
 __all__ = ["COMMANDS", "sheet", "template", "build", "build_files", "BUILD_NAMES"]
 
@@ -44,6 +47,7 @@ BUILD_NAMES = {
     "sheet": "build-sheet.pdf",
     "template": "template-1to1.pdf",
     "sweep": "sweep.csv",
+    "predicted": PREDICTED_NAME,  # the predicted sweep, to overlay in an analyser's software
 }
 
 
@@ -119,9 +123,11 @@ def template(design: Path, output: Path, paper: str | None, force: bool,
 
 
 def build_files(plan: Any, paper: str | None = None, template_paper: str | None = None,
-                progress: Callable[[str], None] | None = None) -> dict[str, bytes]:
+                progress: Callable[[str], None] | None = None,
+                measurement: Any = None) -> dict[str, bytes]:
     """Every output of `plan` as {file name: bytes} (nothing written). Without a
-    paper, the shop's default (Letter for inches, A4 for millimetres)."""
+    paper, the shop's default (Letter for inches, A4 for millimetres). With
+    `measurement` (fabplan.measuring.Measurement) the sheet compares it."""
     from ..render.csv import plan_sweep_csv
     from ..render.fullscale import template_pdf
     from ..render.jig import jig_files
@@ -133,9 +139,10 @@ def build_files(plan: Any, paper: str | None = None, template_paper: str | None 
     sweep = plan_sweep_csv(plan)
     if sweep is not None:
         files[BUILD_NAMES["sweep"]] = sweep.encode("utf-8")
+    files.update(predicted_files(plan))
     files[BUILD_NAMES["plan"]] = plan_to_json(plan).encode("utf-8")
     progress("drawing the build sheet")
-    files[BUILD_NAMES["sheet"]] = sheet_pdf(plan, paper)
+    files[BUILD_NAMES["sheet"]] = sheet_pdf(plan, paper, measurement)
     progress("drawing the full-scale template")
     files[BUILD_NAMES["template"]] = template_pdf(
         plan, template_paper or paper or default_paper(plan.design.shop.units))
@@ -155,10 +162,12 @@ def build_files(plan: Any, paper: str | None = None, template_paper: str | None 
               help="Paper for the template, if not --paper (e.g. a print shop's roll).")
 @click.option("--force", is_flag=True, help="Replace existing files.")
 @with_errors_option
+@measured_option
 @guarded
 def build(design: Path, output: Path, paper: str | None, template_paper: str | None,
-          force: bool, with_errors: bool) -> None:
-    """Write everything: plan.json, jig DXF/SVG, build sheet, 1:1 template, sweep CSV."""
+          force: bool, with_errors: bool, measured: str | None, **reading: Any) -> None:
+    """Write everything: plan.json, jig DXF/SVG, build sheet, 1:1 template, sweep CSV,
+    predicted .s1p; with --measured, the sheet compares the first article."""
     from ..render.files import check_writable, write_set
 
     if is_dash(output):
@@ -172,8 +181,9 @@ def build(design: Path, output: Path, paper: str | None, template_paper: str | N
     progress = _Progress()
     plan = load_plan(design)
     refuse_errors(plan, with_errors)
+    measurement = measurement_for_build(plan, measured, reading)
     files = build_files(plan, paper and paper.lower(),
-                        template_paper and template_paper.lower(), progress)
+                        template_paper and template_paper.lower(), progress, measurement)
     progress(f"writing {len(files)} files into {output}")
     for p in write_set(output, files, force):
         wrote(p)

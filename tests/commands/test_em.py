@@ -162,8 +162,10 @@ def test_sweep_without_electrical_table_is_a_one_line_error(cli, write_design):
     (("sweep", "{p}", "--from", "430 MHz", "--to", "420 MHz"), "must be above"),
     (("sweep", "{p}", "--step", "-1 MHz"), "--step"),
     (("tune", "{p}", "--target", "440 MHz furlongs"), "--target"),
-    (("tune", "{p}", "--measured", "0 MHz"), "positive frequency"),
-    (("tune", "{p}", "--measured", "436 MHz", "-o", "{out}"), "--output"),
+    (("tune", "{p}", "--measured", "0 MHz", "--kind", "resonance"), "positive frequency"),
+    # fabplan issue 14: a measured frequency is never taken for a kind it was not said to be
+    (("tune", "{p}", "--measured", "436 MHz", "-o", "{out}"), "--kind"),
+    (("tune", "{p}", "--kind", "resonance"), "--kind"),
 ])
 def test_bad_options_are_one_line_errors(cli, write_design, tmp_path, args, match):
     p = write_design(text())
@@ -265,10 +267,11 @@ def test_plan_json_has_the_electrical_sections(cli, write_design):
 
 def test_tune_from_a_measurement(cli, write_design):
     p = write_design(text())
-    proc = cli("tune", p, "--measured", "430 MHz", "--for", "resonance", check_exit=0)
+    proc = cli("tune", p, "--measured", "430 MHz", "--kind", "resonance", "--for",
+               "resonance", check_exit=0)
     out = proc.stdout
-    assert "model sensitivity" in out and "proportional rule" in out and "Trust the" in out
-    assert "kHz per mm" in out
+    assert "Correction for the next cut" in out and "shorten by" in out
+    assert "MHz per mm" in out
 
 
 def _plan(extra: str = "", **kw):

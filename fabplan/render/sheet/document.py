@@ -12,7 +12,7 @@ dates, fixed document id).
 from __future__ import annotations
 
 import io
-from typing import Any
+from typing import TYPE_CHECKING, Any
 
 from ... import __version__
 from ...errors import DesignError
@@ -24,13 +24,18 @@ from .electrical import electrical
 from .estimate import order
 from .findings import findings, safety
 
+if TYPE_CHECKING:
+    from ...measuring import Measurement
+
 __all__ = ["sheet_pdf", "default_paper"]
 
 
-def sheet_pdf(plan: Plan, paper: str | None = None) -> bytes:
+def sheet_pdf(plan: Plan, paper: str | None = None,
+              measurement: Measurement | None = None) -> bytes:
     """The build sheet of `plan` as PDF bytes, on "a4" or "letter"; without a
     paper, the shop's default (`default_paper`: Letter for inches, A4 for mm),
-    which the title block then names as the default."""
+    which the title block then names as the default. With `measurement` (the
+    first article against the model), a page comparing them."""
     from reportlab.pdfgen import canvas
     from reportlab.platypus import KeepTogether, SimpleDocTemplate
 
@@ -49,6 +54,10 @@ def sheet_pdf(plan: Plan, paper: str | None = None) -> bytes:
         story += core.element(ctx, e)
     story += order(ctx)
     story += electrical(ctx)
+    if measurement is not None:
+        from .measure import comparison_section
+
+        story += comparison_section(ctx, measurement)
     story += findings(ctx)
     story.append(KeepTogether(safety(ctx)))
 
