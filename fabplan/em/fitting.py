@@ -525,7 +525,7 @@ def _as_row(value: ArrayLike, width: int | None) -> ComplexArray:
 def fit_sweep(solve: Callable[[float], ArrayLike], f_lo_hz: float, f_hi_hz: float, *,
               rtol: float = DEFAULT_RTOL, atol: float = 0.0,
               n_initial: int = DEFAULT_INITIAL, max_solves: int = DEFAULT_MAX_SOLVES,
-              checks: int = 2) -> FittedSweep:
+              checks: int = 2, guide: int | None = None) -> FittedSweep:
     """Fit `solve(f_hz)` (a complex value, e.g. the input impedance in ohm, or a
     1-D array of values, each fitted on its own) across [f_lo_hz, f_hi_hz] from as
     few solves as the tolerance allows (see the module notes).
@@ -534,7 +534,9 @@ def fit_sweep(solve: Callable[[float], ArrayLike], f_lo_hz: float, f_hi_hz: floa
     every component (default 1e-6 relative; `max_error` is |r - F| / (|F| + atol /
     rtol)); n_initial: first solves (>= 3); checks: fresh solves per round (>= 1);
     max_solves: the budget. When the budget runs out first, the fit is returned with
-    `converged` False (and a log warning).
+    `converged` False (and a log warning). guide: the leave-one-out errors, which
+    choose where to solve next and end the loop, are taken over the first `guide`
+    components only (default: all); the fresh solves check every component.
     """
     if not (math.isfinite(f_lo_hz) and math.isfinite(f_hi_hz) and 0 < f_lo_hz < f_hi_hz):
         raise FabplanError("the band needs 0 < f_lo_hz < f_hi_hz", field="f_lo_hz/f_hi_hz",
@@ -547,6 +549,9 @@ def fit_sweep(solve: Callable[[float], ArrayLike], f_lo_hz: float, f_hi_hz: floa
                            value=n_initial)
     if checks < 1:
         raise FabplanError("at least one check per round", field="checks", value=checks)
+    if guide is not None and guide < 1:
+        raise FabplanError("the leave-one-out needs one component at least", field="guide",
+                           value=guide)
     if max_solves < n_initial + checks:
         raise FabplanError(f"the budget must allow the {n_initial} initial solves and one "
                            "round of checks", field="max_solves", value=max_solves)
@@ -570,7 +575,7 @@ def fit_sweep(solve: Callable[[float], ArrayLike], f_lo_hz: float, f_hi_hz: floa
         xs = np.asarray(xs_list, dtype=float)[order]
         vals = np.asarray(rows, dtype=complex)[order]
         fits = _fit_all(xs, vals, floor)
-        loo = _leave_one_out(xs, vals, floor)
+        loo = _leave_one_out(xs, vals if guide is None else vals[:, :guide], floor)
         loo_max = float(loo.max())
         if passed and loo_max <= rtol:
             converged = True

@@ -135,7 +135,9 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
                else 0.0)
         return np.array([sol.z_in, sol.efficiency, g_f, g_b], dtype=complex)
 
-    fit = fit_sweep(solve, f_lo, f_hi, rtol=FIT_RTOL)  # the sweep has 3 points at least
+    # the sweep has 3 points at least; where to solve next is chosen by the impedance,
+    # and every fresh solve checks the efficiency and gains too
+    fit = fit_sweep(solve, f_lo, f_hi, rtol=FIT_RTOL, guide=1)
     fitted = _Fitted(fit, int(model.unknowns))
     result, at_edge = analyse(fitted, settings.chain, freqs, near_hz=settings.target_hz)
     g_f, g_b = fit.values(freqs, 2).real, fit.values(freqs, 3).real

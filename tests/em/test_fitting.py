@@ -205,3 +205,26 @@ def test_fit_of_impedance_and_gain_together(em_wires):
     for k in (0, 1):
         assert np.max(np.abs(fit.values(freqs, k) - ref[:, k]) / np.abs(ref[:, k])) < 1e-6
     assert np.max(np.abs(fit.values(freqs, 1).imag)) < 1e-9  # a real quantity stays real
+
+
+def test_guided_by_the_first_component_the_others_still_fit(em_wires):
+    # reference: the solver and the far field at 81 frequencies. The leave-one-out is taken
+    # over the impedance only (`guide=1`, what the electrical stage asks); the gain, fitted
+    # beside it and checked by every fresh solve, must still be reproduced to the tolerance
+    nodes, src = em_wires.dipole_nodes(1000.0, gap=4.0, h=25.0)
+    model = wire_model(nodes, 2.0, closed=False, source_segments=src, resistivity_ohm_m=RHO_CU,
+                       lossless_segments=src)
+
+    def both(f):
+        sol = model.solve(f)
+        g = ff.far_field(sol, model).gain(np.array(math.pi / 3), np.array(0.0))
+        return np.array([sol.z_in, float(g)])
+
+    freqs = np.linspace(100e6, 200e6, 81)
+    fit = fit_sweep(both, 100e6, 200e6, rtol=1e-7, guide=1)
+    ref = np.array([both(f) for f in freqs])
+    assert fit.converged
+    for k in (0, 1):
+        assert np.max(np.abs(fit.values(freqs, k) - ref[:, k]) / np.abs(ref[:, k])) < 1e-6
+    with pytest.raises(FabplanError, match="one component"):
+        fit_sweep(both, 100e6, 200e6, guide=0)

@@ -1,0 +1,111 @@
+"""Start-up cost of the commands people run most, against floors measured in the
+same run (issue 16).
+
+Run: .venv/bin/python benchmarks/startup.py [ROUNDS]
+
+Each round starts, in a fresh interpreter each and in a rotating order (so that a
+change in the machine's load falls on every case alike):
+
+- `fabplan build` on the bundled example, and its floor: the bare import of the
+  libraries that command needs (`import numpy, scipy.linalg, scipy.special,
+  ezdxf, reportlab.platypus, shapely, click`, the floor issue 16 names);
+- `fabplan plan` on the example, and its floor: the bare import of what a plan
+  loads (`import numpy, scipy.special, shapely, click`);
+- `fabplan --help`, and its floor: `import click`.
+
+For each case it prints the median wall clock, the median processor time of the
+child (user + system, from os.wait4, which the load of other processes disturbs
+far less than the wall clock), the ratio of each to its floor, and the peak
+resident memory of the child (ru_maxrss). Targets: build and plan at most 1.2x
+their floors, --help at most 1.5x; the build's peak memory is printed for the
+record (compare it with an older revision by running this script there).
+The verdict is taken on processor time; the wall-clock ratio is printed beside it.
+"""
+
+from __future__ import annotations
+
+import os
+import statistics
+import subprocess
+import sys
+import tempfile
+from pathlib import Path
+
+ROOT = Path(__file__).resolve().parent.parent
+EXAMPLE = ROOT / "examples" / "club-uhf-folded-dipoles.toml"
+
+FLOORS = {
+    "build": "import numpy, scipy.linalg, scipy.special, ezdxf, reportlab.platypus, shapely, click",
+    "plan": "import numpy, scipy.special, shapely, click",
+    "help": "import click",
+}
+TARGETS = {"build": 1.2, "plan": 1.2, "help": 1.5}
+
+
+def _run(argv: list[str]) -> tuple[float, float, float]:
+    """Wall seconds, child CPU seconds and peak RSS (MiB) of one fresh process."""
+    import time
+
+    t0 = time.perf_counter()
+    proc = subprocess.Popen(argv, cwd=ROOT, stdout=subprocess.DEVNULL,
+                            stderr=subprocess.PIPE)
+    _, status, usage = os.wait4(proc.pid, 0)
+    wall = time.perf_counter() - t0
+    proc.returncode = os.waitstatus_to_exitcode(status)
+    err = proc.stderr.read().decode() if proc.stderr else ""
+    if proc.stderr:
+        proc.stderr.close()
+    if proc.returncode not in (0, 1):
+        sys.exit(f"{' '.join(argv)} failed ({proc.returncode}): {err.strip()}")
+    return wall, usage.ru_utime + usage.ru_stime, usage.ru_maxrss / 1024
+
+
+def main(rounds: int = 10) -> None:
+    py = sys.executable
+    with tempfile.TemporaryDirectory() as tmp:
+        cases = {
+            "build": [py, "-m", "fabplan", "-q", "build", str(EXAMPLE), "-o",
+                      str(Path(tmp) / "build"), "--force"],
+            "plan": [py, "-m", "fabplan", "plan", str(EXAMPLE)],
+            "help": [py, "-m", "fabplan", "--help"],
+        }
+        argv = {}
+        for name, cmd in cases.items():
+            argv[name] = cmd
+            argv[name + " floor"] = [py, "-c", FLOORS[name]]
+        names = list(argv)
+        for name in names:  # warm the file cache once
+            _run(argv[name])
+        got: dict[str, list[tuple[float, float, float]]] = {n: [] for n in names}
+        for r in range(rounds):
+            k = r % len(names)
+            for name in names[k:] + names[:k]:
+                got[name].append(_run(argv[name]))
+    med = {n: tuple(statistics.median(x[i] for x in got[n]) for i in range(3)) for n in names}
+    try:
+        load = os.getloadavg()[0]
+    except OSError:
+        load = float("nan")
+    print(f"{rounds} rounds, load average {load:.1f} on {os.cpu_count()} CPUs; medians")
+    print(f"{'case':14} {'wall s':>7} {'cpu s':>7} {'peak MiB':>9} {'wall x':>7} "
+          f"{'cpu x':>7} {'target':>7}")
+    failed = []
+    for name in cases:
+        for n in (name + " floor", name):
+            wall, cpu, rss = med[n]
+            line = f"{n:14} {wall:7.3f} {cpu:7.3f} {rss:9.1f}"
+            if n == name:
+                fw, fc, _ = med[name + " floor"]
+                ok = cpu / fc <= TARGETS[name]
+                line += (f" {wall / fw:7.2f} {cpu / fc:7.2f} {'<= ' + str(TARGETS[name]):>7}"
+                         f"  {'met' if ok else 'NOT met'}")
+                if not ok:
+                    failed.append(name)
+            print(line)
+    print(f"peak memory of `fabplan build` on the example: {med['build'][2]:.1f} MiB")
+    if failed:
+        print("targets not met: " + ", ".join(failed))
+
+
+if __name__ == "__main__":
+    main(int(sys.argv[1]) if len(sys.argv) > 1 else 10)
