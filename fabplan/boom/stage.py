@@ -353,8 +353,7 @@ def _match_bill(spec: ElementSpec, design: Design) -> list[BillLine]:
 
 
 def _boom_bill(boom: BoomSpec) -> list[BillLine]:
-    wall = f" x {boom.stock.wall_mm:.2f} mm wall" if boom.stock.wall_mm else ""
-    return [BillLine("boom", boom.quantity, f"{boom.stock.description}{wall}, "
+    return [BillLine("boom", boom.quantity, f"{boom.stock.description}, "
                      f"{format_mm(boom.length_mm)} long ({boom.stock.material_name})",
                      boom.stock.source),
             BillLine("boom end cap", 2 * boom.quantity, f"to fit {format_mm(boom.stock.outside_mm)}"
