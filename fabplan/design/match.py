@@ -10,7 +10,7 @@ position = "400 mm"
 
 [element.match]
 kind = "hairpin"             # "hairpin", "gamma" or "t-match"
-length = "120 mm"            # hairpin: feed terminals to the shorting bend's centreline;
+length = "60 mm"             # hairpin: its legs, from the feed terminals to the bend;
                              # gamma: element centre to the strap; t-match: strap to strap
 direction = "back"           # which way the hairpin runs from the feed: "back" (along the
                              # boom towards the reflector), "forward", "down" or "up";
@@ -173,11 +173,10 @@ def match_parts(elements: Sequence[ElementSpec], fields: Sequence[str],
         params: Any
         if m.kind == "hairpin":
             params = hairpin.Params(m.length_mm, "centre_spacing", float(gap or 0.0),
-                                    m.end_style, m.bend_radius_mm)
-            # the U's legs run along its x from its ends; its y across: the ends go to
-            # the feed gap's ends, the legs along `direction`
-            place = part_placement(spec.placement, tuple(m.length_mm * c for c in u),  # type: ignore[arg-type]
-                                   u, (1.0, 0.0, 0.0))
+                                    m.end_style, m.bend_radius_mm, anchor="ends")
+            # the U's legs run along its x from its ends (at its origin), its y across:
+            # the ends go to the feed gap's ends, the legs along `direction`
+            place = part_placement(spec.placement, (0.0, 0.0, 0.0), u, (1.0, 0.0, 0.0))
             shape = "hairpin"
         else:
             s = m.spacing_mm or 0.0
