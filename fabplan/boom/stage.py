@@ -40,7 +40,7 @@ import numpy as np
 
 from ..antennas.boom import BOOM_LIMIT_WL, boom_correction
 from ..antennas.common import wavelength_mm
-from ..design.beam import boom_modelled, mounting_of
+from ..design.beam import beam_frequency_hz, boom_modelled, mounting_of
 from ..design.boom import BoomSpec, boom_x_mm
 from ..design.model import Design, ElementSpec
 from ..drilling.records import DrillPattern, Hole
@@ -74,12 +74,7 @@ class BoomResult:
 def design_frequency_hz(design: Design) -> float | None:
     """The frequency of the boom correction: [boom] frequency, the electrical target, or
     the middle of the electrical sweep (Hz)."""
-    if design.boom is not None and design.boom.frequency_hz is not None:
-        return design.boom.frequency_hz
-    e = design.electrical
-    if e is None:
-        return None
-    return e.target_hz if e.target_hz is not None else 0.5 * (e.sweep_from_hz + e.sweep_to_hz)
+    return beam_frequency_hz(design.boom, design.electrical)
 
 
 def _crossings(spec: ElementSpec) -> list[tuple[str, tuple[float, float, float], int]]:

@@ -69,11 +69,11 @@ def read_design(doc: dict[str, Any], source: str = "<design>") -> Design:
     shop = _read_shop(top.table("shop", None))
     elements = _read_elements(top)
     boom = read_boom(top)
+    electrical = read_electrical(top)
     elements = beam_elements(elements, boom, _element_fields(top, len(elements)),
-                             lambda e: e.stock if e.stock is not None else stock)
+                             lambda e: e.stock if e.stock is not None else stock, electrical)
     forming = read_forming(top, stock)
     purchase = read_purchase(top, [e.name for e in elements])
-    electrical = read_electrical(top)
     jig = read_jig(top)
     top.finish()
     return Design(project, elements, stock, shop, source, forming, purchase, jig, electrical,

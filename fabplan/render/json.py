@@ -290,6 +290,14 @@ def element_dict(e: ElementPlan) -> dict[str, Any]:
         _electrical(e.electrical, d)
     if e.spec.part_of is not None:
         d["part_of"] = e.spec.part_of
+    uniform = getattr(e.spec.params, "uniform", None)
+    if uniform is not None:
+        d["telescoping"] = {"uniform_length_mm": num(uniform.length_mm),
+                            "uniform_diameter_mm": num(uniform.diameter_mm),
+                            "tip_to_tip_mm": num(e.spec.params.length_mm),
+                            "taper_correction_mm": num(uniform.correction_mm),
+                            "frequency_hz": num(uniform.frequency_hz, 1),
+                            "basis": "stepped-element method (fabplan.antennas.taper)"}
     if e.spec.match is not None:
         m = e.spec.match
         d["match"] = {"kind": m.kind, "part": m.part, "element": m.element,

@@ -9,13 +9,18 @@ on the origin.
 Telescoping (`sections`): tubes that step down in size from the centre out, each
 its own piece of stock (a catalogue item, or a tube's `od` and `wall` in the
 element's material), listed from the centre out with the length each shows per
-side (`length`, the exposed length; the tip section takes whatever the element's
-`length` leaves) and how far it slides into the tube before it (`overlap`, default
+side (`length`, the exposed length, the centre tube's measured from the element's
+centre; the tip section takes whatever the element's `length` leaves) and how far it
+slides into the tube before it (`overlap`, default
 3 in: "about 3 in is generally recommended", L. B. Cebik, W4RNL, "I Want to Build
 a 3-Element Yagi", part 3, read in this session). The centre tube is one piece
 across the centre (two, one each side of the insulator, when the element is
 split). The electrical model sees one conductor per side whose radius steps where
-the tubes do (fabplan.em), not the overlapping tubes.
+the tubes do (fabplan.em), not the overlapping tubes. Instead of `length`, a
+telescoping element may give `uniform = { length, diameter }`: the uniform element it
+must behave as (a published design's, e.g. NBS TN 688's); the design reader then
+solves the tip tube's length by the stepped-element method (fabplan.antennas.taper,
+Leeson after Schelkunoff) at the design frequency.
 
 A whole element can also be modelled fed at its centre (a gamma or T match feeds
 it: the published transmission-line model of those matches needs the element's
@@ -65,12 +70,25 @@ class TubeSection:
 
 
 @dataclass(frozen=True)
+class Uniform:
+    """The uniform element a telescoping one must behave as (mm), and, once the design
+    reader has solved the tip, the frequency (Hz) and the stepped-element correction
+    (tapered minus uniform length, mm)."""
+
+    length_mm: float
+    diameter_mm: float
+    frequency_hz: float | None = None
+    correction_mm: float | None = None
+
+
+@dataclass(frozen=True)
 class Params:
     length_mm: float  # tip to tip
     feed_gap_mm: float | None = None  # None: one piece, not fed
     sections: tuple[TubeSection, ...] = ()  # telescoping, from the centre out
     model_centre: ModelCentre = "as-built"  # set by the design reader (see the docstring)
     model_gap_mm: float = 0.0  # the model's centre gap when fed through a match
+    uniform: Uniform | None = None  # telescoping: the uniform element it behaves as
 
 
 def _read_sections(sec: Section) -> tuple[TubeSection, ...]:
@@ -111,7 +129,20 @@ def _read_sections(sec: Section) -> tuple[TubeSection, ...]:
 
 
 def read(sec: Section) -> Params:
-    return Params(sec.length("length"), sec.length("feed_gap", None), _read_sections(sec))
+    sections = _read_sections(sec)
+    gap = sec.length("feed_gap", None)
+    u = sec.table("uniform", None)
+    if u is None:
+        return Params(sec.length("length"), gap, sections)
+    if not sections:
+        raise DesignError("`uniform` gives the element a telescoping element behaves as: give "
+                          "its sections too", field=u.path)
+    if sec.has("length"):
+        raise DesignError("give `length` or `uniform` (the tip is then solved), not both",
+                          field=sec.field("length"))
+    uniform = Uniform(u.length("length"), u.length("diameter"))
+    u.finish()
+    return Params(0.0, gap, sections, uniform=uniform)
 
 
 def _half(p: Params) -> float:
@@ -119,9 +150,11 @@ def _half(p: Params) -> float:
 
 
 def exposed_lengths(p: Params) -> list[float]:
-    """Each section's exposed length per side (mm), the tip's being what is left."""
+    """Each section's exposed length per side (mm), measured from the element's centre
+    for the centre tube (a split element's feed gap comes out of it); the tip's is what
+    the element's length leaves."""
     fixed = [s.exposed_mm or 0.0 for s in p.sections[:-1]]
-    return fixed + [_half(p) - sum(fixed)]
+    return fixed + [p.length_mm / 2 - sum(fixed)]
 
 
 def build(p: Params, d: float) -> BendPath:
@@ -134,20 +167,19 @@ def _run(x0: float, length: float) -> BendPath:
 
 
 def _tubes(p: Params) -> tuple[list[PieceGeometry], dict[tuple[int, str], int]]:
-    """The telescoping pieces and which piece is section k on side "A" / "B" / "C"
-    (the whole centre tube)."""
+    """The telescoping pieces and which piece is section k on side "A" and "B" (the
+    whole centre tube is both)."""
     e = exposed_lengths(p)
     g = (p.feed_gap_mm or 0.0) / 2
-    split = p.feed_gap_mm is not None
     n = len(p.sections)
     pieces: list[PieceGeometry] = []
     where: dict[tuple[int, str], int] = {}
     centre = p.sections[0].stock
-    if split:
+    if p.feed_gap_mm is not None:
         where[(0, "A")] = len(pieces)
-        pieces.append(PieceGeometry("centre tube, side A", _run(-g - e[0], e[0]), centre))
+        pieces.append(PieceGeometry("centre tube, side A", _run(-e[0], e[0] - g), centre))
         where[(0, "B")] = len(pieces)
-        pieces.append(PieceGeometry("centre tube, side B", _run(g, e[0]), centre))
+        pieces.append(PieceGeometry("centre tube, side B", _run(g, e[0] - g), centre))
     else:
         where[(0, "A")] = where[(0, "B")] = len(pieces)
         pieces.append(PieceGeometry("centre tube", _run(-e[0], 2 * e[0]), centre))
@@ -161,29 +193,29 @@ def _tubes(p: Params) -> tuple[list[PieceGeometry], dict[tuple[int, str], int]]:
         fit_a = (f"slides into the {pieces[host_a].label.split(',')[0]} to here", e[k])
         fit_b = (f"slides into the {pieces[host_b].label.split(',')[0]} to here", o)
         where[(k, "A")] = len(pieces)
-        pieces.append(PieceGeometry(f"tube {k + 1}, side A", _run(-g - outer, e[k] + o), s.stock,
+        pieces.append(PieceGeometry(f"tube {k + 1}, side A", _run(-outer, e[k] + o), s.stock,
                                     ("A",) if tip else (), (fit_a,), host_a))
         where[(k, "B")] = len(pieces)
-        pieces.append(PieceGeometry(f"tube {k + 1}, side B", _run(g + inner - o, e[k] + o),
+        pieces.append(PieceGeometry(f"tube {k + 1}, side B", _run(inner - o, e[k] + o),
                                     s.stock, ("B",) if tip else (), (fit_b,), host_b))
         inner = outer
     return pieces, where
 
 
-def _conductor(p: Params, where: dict[tuple[int, str], int], side: str) -> tuple[
-        tuple[float, int], ...]:
-    """Which stock piece the conductor of one side is, from its end A (mm)."""
+def _conductor(p: Params, where: dict[tuple[int, str], int], side: str,
+               start_mm: float = 0.0) -> tuple[tuple[float, int], ...]:
+    """Which stock piece a modelled conductor runs through, from its end A (mm): side
+    "A" from its tip inward; side "B" outward from `start_mm` beyond the centre."""
     e = exposed_lengths(p)
     n = len(p.sections)
-    if side == "A":  # from the tip inward
-        out, s = [], 0.0
+    out, s = [], 0.0
+    if side == "A":
         for k in range(n - 1, -1, -1):
             out.append((s, where[(k, "A")]))
             s += e[k]
         return tuple(out)
-    out, s = [], 0.0
     for k in range(n):
-        out.append((s, where[(k, "B")]))
+        out.append((max(s - start_mm, 0.0), where[(k, "B")]))
         s += e[k]
     return tuple(out)
 
@@ -197,12 +229,12 @@ def geometry(p: Params, d: float) -> ElementGeometry:
         if g is not None:
             gaps = (Gap(End(where[(0, "A")], "B"), End(where[(0, "B")], "A"), g, "feed"),)
         stock_geometry = ElementGeometry(tuple(pieces), gaps)
-        ca, cb = _conductor(p, where, "A"), _conductor(p, where, "B")
         centre_gap = g if g is not None else (p.model_gap_mm if p.model_centre == "fed"
                                               else 0.0)
+        ca, cb = _conductor(p, where, "A"), _conductor(p, where, "B", centre_gap / 2)
         if g is None and p.model_centre == "as-built":
             # side A from its tip to the centre, then side B beyond the centre tube's middle
-            whole = list(ca) + [(half + s, i) for s, i in cb[1:]]
+            whole = list(ca) + [(p.length_mm / 2 + s, i) for s, i in cb[1:]]
             model = ElementGeometry((PieceGeometry("", build(p, d), conductor_of=tuple(whole)),))
         else:
             model = _two_sides(p, centre_gap, ca, cb,
@@ -234,7 +266,7 @@ def _two_sides(p: Params, gap: float, ca: tuple[tuple[float, int], ...],
 
 def problems(p: Params, d: float) -> list[Finding]:
     out = []
-    if p.feed_gap_mm is not None and _half(p) <= d:
+    if p.feed_gap_mm is not None and not p.sections and _half(p) <= d:
         out.append(Finding("gap-wider-than-side", "error",
                            f"a {p.feed_gap_mm:.1f} mm feed gap leaves halves of "
                            f"{_half(p):.1f} mm: shorten the gap or lengthen the element"))
@@ -243,11 +275,16 @@ def problems(p: Params, d: float) -> list[Finding]:
         if e[-1] <= 0:
             out.append(Finding("tip-section-too-short", "error",
                                f"the inner sections already make {sum(e[:-1]):.1f} mm a side of "
-                               f"the {_half(p):.1f} mm the element's length leaves: the tip "
-                               "tube has no length; shorten the inner sections"))
+                               f"the {p.length_mm / 2:.1f} mm the element's length gives: the "
+                               "tip tube has no length; shorten the inner sections"))
+        g = (p.feed_gap_mm or 0.0) / 2
+        if e[0] <= g + d:
+            out.append(Finding("gap-wider-than-side", "error",
+                               f"the centre tube shows {e[0]:.1f} mm a side from the centre, not "
+                               f"enough for the {2 * g:.1f} mm feed gap: lengthen it"))
         for k in range(1, len(p.sections)):
             o = p.sections[k].overlap_mm
-            room = e[k - 1] if k > 1 or p.feed_gap_mm is not None else e[0]
+            room = e[k - 1] - (g if k == 1 else 0.0)
             if o >= room:
                 out.append(Finding("overlap-longer-than-tube", "error",
                                    f"tube {k + 1} slides {o:.1f} mm into tube {k}, which shows "
@@ -275,7 +312,7 @@ def dimensions(p: Params, d: float) -> tuple[Dimension, ...]:
                       (0.0, 1.0, 0.0)),)
 
 
-KEYS = ("length", "feed_gap", "sections")
+KEYS = ("length", "feed_gap", "sections", "uniform")
 
 SPEC = ShapeSpec(NAME, SUMMARY, KEYS, read, build, problems, governing, with_governing,
                  tuned_keys, geometry=geometry, dimensions=dimensions)
