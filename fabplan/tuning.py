@@ -344,6 +344,7 @@ def tuned_values(element: ElementPlan, new_params: Any) -> dict[str, TunedValue]
 GOAL_KINDS = ("max-gain", "max-front-to-back")
 MATCH_SWR = 1.01  # the match refinement stops below this SWR at the target
 MATCH_STEPS = 12
+NEAR_SWR = 2.0  # below this a hairpin's own lengths are refined, not designed afresh
 DEFAULT_WITHIN = 0.05  # a goal may move each parasitic element's length by +-5 %
 GOAL_EVALUATIONS = 60  # per parasitic element, at most
 
@@ -601,6 +602,11 @@ def _tune_hairpin(beam: _Beam, element: ElementPlan, part: ElementPlan,
     shape = SHAPES[element.spec.shape]
     key, length = shape.governing(params[name])
     z_sys = _system_at_terminals(beam.settings, target_hz)
+    now = beam.figures(target_hz, params)
+    if now.swr < NEAR_SWR:  # near already: refine the design's own lengths
+        params, steps = _newton_hairpin(beam, params, name, hp, shape, target_hz, z_sys)
+        return params, (f"the design's lengths (SWR {now.swr:.2f} at the target); "
+                        f"{steps} Newton step(s) on both lengths")
     # 1. the element alone (no hairpin): its resistance sets the network
     alone = beam.figures(target_hz, params, without=(hp,)).z_ohm
     gap = part.spec.params.centre_spacing(part.pieces[0].conductor_diameter_mm)
@@ -624,7 +630,15 @@ def _tune_hairpin(beam: _Beam, element: ElementPlan, part: ElementPlan,
     start = (f"hairpin_match on the element alone: R = {alone.real:.1f} ohm, so Q = "
              f"{design.q:.2f}; element made {design.element_reactance_ohm:.1f} ohm reactive; "
              f"hairpin {design.length_mm:.1f} mm of {design.z0_ohm:.0f} ohm line")
-    # 3. Newton on (element length, hairpin legs): the reflection at the target to zero
+    params, steps = _newton_hairpin(beam, params, name, hp, shape, target_hz, z_sys)
+    return params, start + f"; then {steps} Newton step(s) on both lengths"
+
+
+def _newton_hairpin(beam: _Beam, params: dict[str, Any], name: str, hp: str, shape: Any,
+                    target_hz: float, z_sys: complex) -> tuple[dict[str, Any], int]:
+    """Newton's method on (element length, hairpin legs): the reflection at the target
+    to zero, each step limited to 2 % of the element and 30 % of the legs."""
+    params = dict(params)
     steps = 0
     while steps < MATCH_STEPS:
         base = _gamma(beam, params, target_hz, z_sys)
@@ -646,7 +660,7 @@ def _tune_hairpin(beam: _Beam, element: ElementPlan, part: ElementPlan,
         scale = float(min(1.0, *(limit / np.maximum(np.abs(dx), 1e-12))))
         params[name] = _moved(params[name], True, shape, float(dx[0]) * scale)
         params[hp] = _moved(params[hp], False, shape, float(dx[1]) * scale)
-    return params, start + f"; then {steps} Newton step(s) on both lengths"
+    return params, steps
 
 
 def _moved(p: Any, governing: bool, shape: Any, by: float) -> Any:
