@@ -430,6 +430,7 @@ class BeamTuneResult:
     evaluations: int
     params: dict[str, Any]  # new params by element name
     matches: dict[str, Any]  # new MatchSpecs by element name
+    network: Any = None  # the published hairpin design the search started from, if it did
 
     @property
     def goal_met(self) -> bool | None:
@@ -540,12 +541,13 @@ def tune_beam(plan: Plan, element: ElementPlan, settings: ElectricalSettings, ta
                                      max_goal_evaluations)
         changes += found
     start = "no matching device: the driven element's length for least SWR"
+    network = None
     if m is None:
         r = tune(plan, element, settings, target_hz, tune_for="least-swr", factory=factory)
         params[element.name] = r.new_params
         start = f"least SWR on target by the secant method ({r.iterations} steps)"
     elif m.kind == "hairpin" and part is not None:
-        params, start = _tune_hairpin(beam, element, part, params, target_hz)
+        params, start, network = _tune_hairpin(beam, element, part, params, target_hz)
     elif m.kind in ("gamma", "t-match"):
         params, new_match, start = _tune_line_match(beam, element, params, target_hz)
         matches[element.name] = new_match
@@ -569,7 +571,8 @@ def tune_beam(plan: Plan, element: ElementPlan, settings: ElectricalSettings, ta
     after = beam.figures(target_hz, {k: v for k, v in params.items()}, device)
     changes = _latest(changes)
     return BeamTuneResult(element.name, None if m is None else m.kind, target_hz, goal, start,
-                          tuple(changes), before, after, beam.evaluations, params, matches)
+                          tuple(changes), before, after, beam.evaluations, params, matches,
+                          network)
 
 
 def _latest(changes: list[Change]) -> list[Change]:
@@ -594,7 +597,7 @@ def _device(beam: _Beam, element: ElementPlan, match: Any) -> Any:
 
 
 def _tune_hairpin(beam: _Beam, element: ElementPlan, part: ElementPlan,
-                  params: dict[str, Any], target_hz: float) -> tuple[dict[str, Any], str]:
+                  params: dict[str, Any], target_hz: float) -> tuple[dict[str, Any], str, Any]:
     from .antennas.matching import hairpin_match
 
     params = dict(params)
@@ -606,7 +609,7 @@ def _tune_hairpin(beam: _Beam, element: ElementPlan, part: ElementPlan,
     if now.swr < NEAR_SWR:  # near already: refine the design's own lengths
         params, steps = _newton_hairpin(beam, params, name, hp, shape, target_hz, z_sys)
         return params, (f"the design's lengths (SWR {now.swr:.2f} at the target); "
-                        f"{steps} Newton step(s) on both lengths")
+                        f"{steps} Newton step(s) on both lengths"), None
     # 1. the element alone (no hairpin): its resistance sets the network
     alone = beam.figures(target_hz, params, without=(hp,)).z_ohm
     gap = part.spec.params.centre_spacing(part.pieces[0].conductor_diameter_mm)
@@ -631,7 +634,7 @@ def _tune_hairpin(beam: _Beam, element: ElementPlan, part: ElementPlan,
              f"{design.q:.2f}; element made {design.element_reactance_ohm:.1f} ohm reactive; "
              f"hairpin {design.length_mm:.1f} mm of {design.z0_ohm:.0f} ohm line")
     params, steps = _newton_hairpin(beam, params, name, hp, shape, target_hz, z_sys)
-    return params, start + f"; then {steps} Newton step(s) on both lengths"
+    return params, start + f"; then {steps} Newton step(s) on both lengths", design
 
 
 def _newton_hairpin(beam: _Beam, params: dict[str, Any], name: str, hp: str, shape: Any,
