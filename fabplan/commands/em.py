@@ -98,7 +98,7 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
         plan_electrical_text,
         sweep_lines,
     )
-    from ..tuning import fed_element
+    from ..tuning import driven_element, fed_element
 
     if is_dash(csv_path) and is_dash(s1p_path):
         raise DesignError("only one of --csv and --s1p can go to standard output",
@@ -115,9 +115,9 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     settings = dataclasses.replace(settings, sweep_from_hz=lo, sweep_to_hz=hi, sweep_step_hz=step)
     plan = _core_plan(d)
     if element_name is not None:
-        chosen = [fed_element(plan, element_name)]
-    else:
-        chosen = [e for e in plan.elements if e.feed_gap_mm is not None]
+        chosen = [driven_element(plan, element_name)]
+    else:  # a whole element fed through a gamma or T match counts (the model feeds it)
+        chosen = [e for e in plan.elements if e.geometry.modelled.feed is not None]
         if not chosen:
             fed_element(plan, None)  # raises: nothing to sweep
     inputs = [electrical_input(d, e.spec, e.geometry, e.pieces) for e in plan.elements]

@@ -16,6 +16,7 @@ Pure: no files, no printing. Hz, ohm, mm, W.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from collections.abc import Callable, Mapping, Sequence
 from typing import Any
@@ -144,6 +145,9 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
         device = device.solved_for(fitted.impedance(f0), f0)
         fitted = Through(fitted, device)
     result, at_edge = analyse(fitted, settings.chain, freqs, near_hz=settings.target_hz)
+    if device is not None:
+        result = dataclasses.replace(result, matching=f"{device.describe()}, then "
+                                                      f"{result.matching}")
     g_f, g_b = fit.values(freqs, 2).real, fit.values(freqs, 3).real
     band = BandFigures(tuple(float(f) for f in freqs), tuple(_db(x) for x in g_f),
                        tuple(None if back is None or not (a > 0 and b > 0) else

@@ -107,12 +107,12 @@ def wrap_layout(pattern: DrillPattern, den: int = 16) -> Layout:
                 items.append(Item("text", (x + r + 1.5, yy + 1.2, f"H{n} exit"), size=6))
         where = (f"{format_mm(x)} ({format_inches(x, den)}) from datum, {h.angle_deg:g} deg"
                  + (", through" if h.through else ""))
-        items.append(Item("text", (x, half + TAB_MM + 3.0 + 9.5 * ((n - 1) % 2),
-                                   f"{label}"), size=6.5, anchor="middle", bold=True))
-        items.append(Item("text", (x, half + TAB_MM + 3.0 + 9.5 * ((n - 1) % 2) - 3.2, where),
-                          size=5.5, anchor="middle"))
-        items.append(Item("line", ((x, half + TAB_MM + 0.5 + 9.5 * ((n - 1) % 2)),
-                                   (x, y + r + 0.5)), width=0.2, grey=0.5, dash=(0.8, 0.8)))
+        base = half + TAB_MM + 6.0 + 9.0 * ((n - 1) % 2)  # two rows, alternating
+        items.append(Item("text", (x, base + 1.0, label), size=6.5, anchor="middle",
+                          bold=True))
+        items.append(Item("text", (x, base - 2.4, where), size=5.5, anchor="middle"))
+        items.append(Item("line", ((x, base - 4.0), (x, y + r + 0.5)), width=0.2, grey=0.5,
+                          dash=(0.8, 0.8)))
     # the datum and the title
     items.append(Item("text", (-3.0, -half + 2.0, f"DATUM: butt this edge against {pattern.datum}"),
                       size=7, angle=90, bold=True, anchor="start"))
