@@ -22,6 +22,7 @@ from ..units import (
     format_angle,
     format_frequency,
     format_length,
+    format_mm,
     format_money,
     format_weight,
 )

@@ -28,17 +28,19 @@ from ..errors import DesignError
 from ..plan import Plan
 from ..units import format_inches, format_mm
 from .fullscale.drawing import ACTUAL_SIZE, calibration_bars, draw_items
-from .fullscale.layout import Item, Layout, shift
+from .fullscale.fonts import FONT, FONT_BOLD, register_fonts, text_width_mm
+from .fullscale.layout import Item, Layout, item_box, shift
 from .fullscale.papers import PAPERS, PT_PER_MM, paper_size
 from .fullscale.tiling import (
     CROSS_MM,
     FOOTER_MM,
     MARGIN_MM,
     OVERLAP_MM,
+    Grid,
     content_area,
     crosses,
     row_name,
-    tile_grid,
+    tile_count,
 )
 
 __all__ = ["wrap_layout", "wrap_pdf", "drilling_pdf", "TAB_MM", "END_MM"]
@@ -123,6 +125,9 @@ def wrap_layout(pattern: DrillPattern, den: int = 16) -> Layout:
                       bold=True))
     x0, y0 = -12.0, -half - 4.0
     x1, y1 = length + 10.0, half + TAB_MM + LABEL_MM
+    for it in items:  # a text's advance width, for the drawing to anchor it
+        if it.kind == "text":
+            it.tw = text_width_mm(it.data[2], it.size, it.bold)
     shift(items, -x0, -y0)
     return Layout(items, x1 - x0, y1 - y0)
 
@@ -143,44 +148,62 @@ def _hole(items: list[Item], x: float, y: float, r: float, dash: tuple[float, ..
 def _footer(c: Any, page_w_pt: float, label: str) -> None:
     k = PT_PER_MM
     calibration_bars(c, MARGIN_MM * k + 34, MARGIN_MM * k + 2)
-    c.setFont("Helvetica-Bold", 8.5)
+    c.setFont(FONT_BOLD, 8.5)
     c.drawString(MARGIN_MM * k, MARGIN_MM * k + 15.5 * k, ACTUAL_SIZE)
-    c.setFont("Helvetica", 8)
+    c.setFont(FONT, 7.5)
     c.drawRightString(page_w_pt - MARGIN_MM * k, MARGIN_MM * k + 15.5 * k, label)
+
+
+def _grid(layout: Layout, paper: str) -> Grid:
+    """The tiles over a layout: portrait or landscape, whichever needs fewer pages
+    (portrait on a tie)."""
+    pw, ph = paper_size(paper)
+    if ph is None:
+        raise ValueError(f"{paper} is a roll: it is not tiled")
+    best: Grid | None = None
+    for w, h in ((pw, ph), (ph, pw)):
+        cw, ch = content_area(w, h)
+        g = Grid(w, h, tile_count(layout.width, cw, OVERLAP_MM),
+                 tile_count(layout.height, ch, OVERLAP_MM), OVERLAP_MM)
+        if best is None or g.cols * g.rows < best.cols * best.rows:
+            best = g
+    if best is None:  # pragma: no cover - two orientations were tried
+        raise ValueError(paper)
+    return best
 
 
 def _tiles(c: Any, name: str, layout: Layout, paper: str, first_page: int,
            total: int) -> None:
     k = PT_PER_MM
-    pw, ph, cols, rows = tile_grid(layout.width, layout.height, paper, OVERLAP_MM)
-    cw, ch = content_area(pw, ph)
-    sx, sy = cw - OVERLAP_MM, ch - OVERLAP_MM
-    gw, gh = cw + (cols - 1) * sx, ch + (rows - 1) * sy
+    g = _grid(layout, paper)
     items = [Item(it.kind, it.data, it.width, it.dash, it.grey, it.size, it.angle, it.anchor,
-                  it.bold) for it in layout.items]
-    shift(items, (gw - layout.width) / 2, (gh - layout.height) / 2)
-    if cols * rows > 1:
-        for n, x, y in crosses(cols, rows, cw, ch, OVERLAP_MM):
+                  it.bold, tw=it.tw) for it in layout.items]
+    shift(items, (g.width - layout.width) / 2, (g.height - layout.height) / 2)
+    if g.cols * g.rows > 1:
+        for n, x, y in crosses(g.cols, g.rows, g.cw, g.ch, OVERLAP_MM):
             items += [Item("line", ((x - CROSS_MM / 2, y), (x + CROSS_MM / 2, y)), width=0.4),
                       Item("line", ((x, y - CROSS_MM / 2), (x, y + CROSS_MM / 2)), width=0.4),
-                      Item("text", (x + 1.2, y + 1.2, str(n)), size=8, bold=True)]
+                      Item("text", (x + 1.2, y + 1.2, str(n)), size=8, bold=True,
+                           tw=text_width_mm(str(n), 8, True))]
+    boxes = [item_box(it) if it.kind != "text" else None for it in items]
     page = first_page
-    for r in range(rows):
-        for col in range(cols):
-            x0, y0 = col * sx, (rows - 1 - r) * sy
-            c.setPageSize((pw * k, ph * k))
-            c.saveState()
-            p = c.beginPath()
-            p.rect(MARGIN_MM * k, (MARGIN_MM + FOOTER_MM) * k, cw * k, ch * k)
-            c.clipPath(p, stroke=0, fill=0)
-            draw_items(c, items, MARGIN_MM * k - x0 * k, (MARGIN_MM + FOOTER_MM) * k - y0 * k,
-                       (x0, y0, x0 + cw, y0 + ch))
-            c.restoreState()
-            tile = f"{row_name(r)}{col + 1}"
-            _footer(c, pw * k, f"{name}: tile {tile} of {rows} x {cols} (lay tiles left to "
-                               f"right, crosses on crosses)   page {page} of {total}")
-            c.showPage()
-            page += 1
+    for r, col in g.tiles():
+        x0, y0, x1, y1 = g.box(r, col)
+        only = [i for i, b in enumerate(boxes)
+                if b is None or not (b[2] < x0 or b[0] > x1 or b[3] < y0 or b[1] > y1)]
+        c.setPageSize((g.page_w * k, g.page_h * k))
+        c.saveState()
+        p = c.beginPath()
+        p.rect(MARGIN_MM * k, (MARGIN_MM + FOOTER_MM) * k, g.cw * k, g.ch * k)
+        c.clipPath(p, stroke=0, fill=0)
+        draw_items(c, items, MARGIN_MM * k - x0 * k, (MARGIN_MM + FOOTER_MM) * k - y0 * k,
+                   only)
+        c.restoreState()
+        _footer(c, g.page_w * k, f"{name}: tile {row_name(r)}{col + 1} of {g.rows} x {g.cols} "
+                                 f"(tiles left to right, crosses on crosses)   page {page} of "
+                                 f"{total}")
+        c.showPage()
+        page += 1
 
 
 def _roll(c: Any, name: str, layout: Layout, paper: str, page: int, total: int) -> None:
@@ -210,8 +233,8 @@ def _roll(c: Any, name: str, layout: Layout, paper: str, page: int, total: int) 
 def _pages(layout: Layout, paper: str) -> int:
     if PAPERS[paper][1] is None:
         return 1
-    _, _, cols, rows = tile_grid(layout.width, layout.height, paper, OVERLAP_MM)
-    return cols * rows
+    g = _grid(layout, paper)
+    return g.cols * g.rows
 
 
 def wrap_pdf(patterns: Sequence[DrillPattern], title: str, paper: str = "a4",
@@ -222,10 +245,13 @@ def wrap_pdf(patterns: Sequence[DrillPattern], title: str, paper: str = "a4",
     paper_size(paper)
     if not patterns:
         raise DesignError("there are no holes to drill: no drilling template", field="drilling")
+    register_fonts()
     layouts = [(p.name, wrap_layout(p, den)) for p in patterns]
     total = sum(_pages(lay, paper) for _, lay in layouts)
     buf = io.BytesIO()
-    c = canvas.Canvas(buf, invariant=1, pageCompression=1)
+    c = canvas.Canvas(buf, invariant=1, pageCompression=1, initialFontName=FONT,
+                      initialFontSize=8)
+    c.setViewerPreference("PrintScaling", "None")
     c.setTitle(f"{title}: wrap-around drilling templates")
     c.setAuthor("fabplan")
     c.setCreator("fabplan")
