@@ -6,6 +6,8 @@ of typed inputs returning a typed record; no stage rewrites another's output:
     ends        a bender's square ends, chosen before any length (forming.ends)
     geometry    every element's pieces of stock and gaps (lengths.stage)
     core        developed and cut lengths, bend table, marks (lengths.stage)
+    boom        elements on a boom: positions, the boom correction added to the
+                cuts, drilling, hardware; matching devices' fittings (boom.stage)
     forming     springback, formers, tool marks, limits, bend order (forming.stage)
     estimate    weight, cost, purchase plan (estimate.stage)
     jig         bending jigs laid out on machine beds (jig.stage)
@@ -20,6 +22,9 @@ import dataclasses
 from collections.abc import Sequence
 from dataclasses import dataclass
 
+from .boom.records import BoomPlan, ElementMount
+from .boom.stage import boom_stage
+from .design.beam import boom_modelled
 from .design.forming import FormingSettings
 from .design.jig import JigSettings
 from .design.model import Design, ElementSpec, StockSpec
@@ -34,7 +39,7 @@ from .forming.ends import resolve_ends
 from .forming.records import ElementForming
 from .forming.stage import StockModel, form_piece, stock_model
 from .geometry.placement import Placement
-from .geometry.shapes import SHAPES
+from .geometry.shapes import SHAPES, straight
 from .geometry.shapes.base import ElementGeometry
 from .jig.records import JigLayout, JigPiece
 from .jig.stage import layout_jig
@@ -42,7 +47,7 @@ from .lengths.records import PieceCore, StockSummary
 from .lengths.stage import element_geometry, plan_pieces, stock_summary
 
 __all__ = ["Plan", "ElementPlan", "PiecePlan", "make_plan", "core_element", "electrical_input",
-           "jig_pieces", "jig_for"]
+           "jig_pieces", "jig_for", "boom_input"]
 
 
 @dataclass(frozen=True)
@@ -55,8 +60,9 @@ class PiecePlan(PieceCore):
 @dataclass(frozen=True)
 class ElementPlan:
     """One element: its spec as it will be made, where it sits, the pieces of
-    stock it is made of and the gaps between their ends, and its weight, cost
-    and electrical check."""
+    stock it is made of (as cut: a boom correction included) and the gaps between
+    their ends (the shape's geometry), its weight, cost and electrical check, and its
+    place on the boom."""
 
     spec: ElementSpec
     geometry: ElementGeometry
@@ -66,6 +72,7 @@ class ElementPlan:
     # errors in the element's shape (it cannot be made as given): no jig is laid
     # out for it and no electrical model is made of it
     shape_errors: tuple[Finding, ...] = ()
+    boom: ElementMount | None = None
 
     @property
     def name(self) -> str:
@@ -122,6 +129,7 @@ class Plan:
     jig: JigLayout | None = None
     electrical: PlanElectrical | None = None
     drilling: tuple[DrillPattern, ...] = ()  # boom, mast: holes from one datum
+    boom: BoomPlan | None = None
 
     @property
     def has_errors(self) -> bool:
@@ -172,6 +180,10 @@ def make_plan(design: Design) -> Plan:
         cores.append(pieces)
         findings += found
         shape_errors.append(tuple(f for f in [*ends, *found] if f.severity == "error"))
+    # boom: the pieces as cut (a boom correction added at the tips), drilling, hardware
+    beam = boom_stage(design, specs, geometries, cores)
+    cores = list(beam.pieces)
+    findings += beam.findings
     # forming
     formed: list[tuple[PiecePlan, ...]] = []
     for spec, pieces, ends in zip(specs, cores, ends_found):
@@ -203,12 +215,18 @@ def make_plan(design: Design) -> Plan:
     elif design.electrical is not None:
         inputs = [electrical_input(design, spec, geometry, pieces)
                   for spec, geometry, pieces in zip(specs, geometries, formed)]
-        checked, plan_electrical, em_found = electrical(inputs, design.electrical)
+        boom_wire = boom_input(design, specs)
+        checked, plan_electrical, em_found = electrical(
+            inputs + ([boom_wire] if boom_wire is not None else []), design.electrical)
+        checked = checked[:len(inputs)]
         findings += em_found
-    elements = tuple(ElementPlan(*parts) for parts in zip(specs, geometries, formed,
-                                                          est.elements, checked, shape_errors))
+    elements = tuple(ElementPlan(spec, geometry, pieces, e_est, e_em, bad, mount)
+                     for spec, geometry, pieces, e_est, e_em, bad, mount in zip(
+                         specs, geometries, formed, est.elements, checked, shape_errors,
+                         beam.mounts))
+    drilling = (beam.boom.drilling,) if beam.boom is not None and beam.boom.drilling.holes else ()
     return Plan(design, stock_summary(design.stock), elements, tuple(findings), est.order, jig,
-                plan_electrical)
+                plan_electrical, drilling, beam.boom)
 
 
 def electrical_not_run(specs: Sequence[ElementSpec],
@@ -230,6 +248,26 @@ def electrical_input(design: Design, spec: ElementSpec, geometry: ElementGeometr
     of stock with their forming figures, and the gaps between their ends."""
     return ElectricalInput(spec, design.stock_of(spec), tuple(pieces),
                            tuple(p.forming for p in pieces), geometry)
+
+
+def boom_input(design: Design, specs: tuple[ElementSpec, ...] | list[ElementSpec] | None = None
+               ) -> ElectricalInput | None:
+    """The metal boom as a conductor of the electrical model, when it is modelled
+    (fabplan.design.beam.boom_modelled): a straight along x from the rear end, with
+    the boom's equivalent radius; None otherwise."""
+    boom = design.boom
+    if boom is None or not boom_modelled(boom, list(specs or design.elements)):
+        return None
+    material = boom.stock.material
+    if material is None:
+        return None
+    profile = boom.stock.model_profile()
+    stock = StockSpec(material, profile, f"the boom as modelled ({boom.stock.description})",
+                      boom.stock.source)
+    spec = ElementSpec("boom", "straight", straight.Params(boom.length_mm), stock=stock,
+                       placement=Placement((boom.length_mm / 2, 0.0, 0.0)))
+    geometry, pieces, _ = core_element(design, spec)
+    return ElectricalInput(spec, stock, pieces, (None,) * len(pieces), geometry)
 
 
 def jig_pieces(plan: Plan) -> list[JigPiece]:

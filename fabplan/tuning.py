@@ -43,7 +43,9 @@ from .plan import ElementPlan, Plan, core_element, electrical_input
 log = logging.getLogger("fabplan")
 
 __all__ = ["TuneResult", "MarkChange", "MeasuredResult", "feature_hz", "tune",
-           "from_measurement", "proportional_length", "tuned_values", "fed_element"]
+           "from_measurement", "proportional_length", "tuned_values", "fed_element",
+           "Goal", "parse_goal", "Change", "BeamFigures", "BeamTuneResult", "tune_beam",
+           "driven_element", "beam_values"]
 
 TOLERANCE_FRAC = 2e-5  # tuning stops when the model's frequency is this close to the target
 MAX_ITERATIONS = 12
@@ -336,3 +338,488 @@ def tuned_values(element: ElementPlan, new_params: Any) -> dict[str, TunedValue]
     carries the governing length, for the new params (fabplan.design.rewrite
     writes the ones the element's table gives)."""
     return SHAPES[element.spec.shape].tuned_keys(new_params)
+
+
+# -- beams: the driven element and its match, and the parasitic elements -------------
+GOAL_KINDS = ("max-gain", "max-front-to-back")
+MATCH_SWR = 1.01  # the match refinement stops below this SWR at the target
+MATCH_STEPS = 12
+NEAR_SWR = 2.0  # below this a hairpin's own lengths are refined, not designed afresh
+DEFAULT_WITHIN = 0.05  # a goal may move each parasitic element's length by +-5 %
+GOAL_EVALUATIONS = 60  # per parasitic element, at most
+
+
+@dataclass(frozen=True)
+class Goal:
+    """What `tune --goal` asks of the parasitic elements: `kind` "max-gain" or
+    "max-front-to-back", with an optional floor on the other figure
+    (`front_to_back_db` for max-gain, `gain_dbi` for max-front-to-back), each
+    parasitic length kept within +-`within` (a fraction) of its design value."""
+
+    kind: str
+    front_to_back_db: float | None = None
+    gain_dbi: float | None = None
+    within: float = DEFAULT_WITHIN
+
+    def describe(self) -> str:
+        if self.kind == "max-gain":
+            floor = ("" if self.front_to_back_db is None else
+                     f" with front-to-back at least {self.front_to_back_db:g} dB")
+            return f"most forward gain{floor}"
+        floor = "" if self.gain_dbi is None else f" with gain at least {self.gain_dbi:g} dBi"
+        return f"most front-to-back{floor}"
+
+
+def parse_goal(text: str, within: float = DEFAULT_WITHIN) -> Goal:
+    """`--goal`: "max-gain", "max-front-to-back", "front-to-back>=20dB" (most gain with
+    that front-to-back) or "gain>=8dBi" (most front-to-back with that gain)."""
+    t = text.replace(" ", "").lower()
+    if t in GOAL_KINDS:
+        return Goal(t, within=within)
+    for key, unit, kind in (("front-to-back>=", "db", "max-gain"),
+                            ("gain>=", "dbi", "max-front-to-back")):
+        if t.startswith(key):
+            number = t[len(key):].removesuffix(unit).removesuffix("db")
+            try:
+                value = float(number)
+            except ValueError:
+                break
+            if kind == "max-gain":
+                return Goal(kind, front_to_back_db=value, within=within)
+            return Goal(kind, gain_dbi=value, within=within)
+    raise DesignError('expected "max-gain", "max-front-to-back", "front-to-back>=20dB" or '
+                      '"gain>=8dBi"', field="--goal", value=text)
+
+
+@dataclass(frozen=True)
+class Change:
+    """One design-file value the tuner changed: the element, the key in its table
+    ("length", "match.length", "match.capacitance"), its kind, old and new value
+    (mm, or F for a capacitance)."""
+
+    element: str
+    key: str
+    kind: str  # "length" or "capacitance"
+    old: float
+    new: float
+
+
+@dataclass(frozen=True)
+class BeamFigures:
+    """The beam at the target: terminal impedance (ohm), SWR through the matching,
+    forward gain (dBi, towards +x) and front-to-back (dB, +x against -x)."""
+
+    z_ohm: complex
+    swr: float
+    gain_dbi: float
+    front_to_back_db: float
+
+
+@dataclass(frozen=True)
+class BeamTuneResult:
+    """What `tune_beam` changed and the beam before and after (Hz, mm, F)."""
+
+    element: str
+    match: str | None
+    target_hz: float
+    goal: Goal | None
+    start: str  # how the starting point was found
+    changes: tuple[Change, ...]
+    before: BeamFigures
+    after: BeamFigures
+    evaluations: int
+    params: dict[str, Any]  # new params by element name
+    matches: dict[str, Any]  # new MatchSpecs by element name
+    network: Any = None  # the published hairpin design the search started from, if it did
+
+    @property
+    def goal_met(self) -> bool | None:
+        """Whether the goal's floor holds after tuning (None: no goal or no floor)."""
+        g = self.goal
+        if g is None:
+            return None
+        if g.front_to_back_db is not None:
+            return self.after.front_to_back_db >= g.front_to_back_db - 1e-9
+        if g.gain_dbi is not None:
+            return self.after.gain_dbi >= g.gain_dbi - 1e-9
+        return None
+
+
+class _Beam:
+    """The group of elements modelled with `element`, solved at one frequency for any
+    params (by element name) and matching device."""
+
+    def __init__(self, plan: Plan, element: ElementPlan, settings: ElectricalSettings,
+                 factory: ModelFactory) -> None:
+        inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
+                  for e in plan.elements]
+        from .plan import boom_input
+
+        boom = boom_input(plan.design, [e.spec for e in plan.elements])
+        index = plan.elements.index(element)
+        group = next(g for g in groups(inputs) if index in g)
+        self.group: list[ElectricalInput] = [inputs[i] for i in group]
+        if boom is not None and element.spec.placement is not None:
+            self.group.append(boom)
+        self.settings, self.factory = settings, factory
+        self.evaluations = 0
+
+    def figures(self, f_hz: float, params: dict[str, Any], match: Any = None,
+                without: tuple[str, ...] = ()) -> BeamFigures:
+        """Solve at `f_hz` with `params` (by element name), leaving out the elements
+        named in `without`; `match` (a fabplan.em.devices.LineMatch) is applied to the
+        terminal impedance."""
+        import math as _m
+
+        import numpy as _np
+
+        from .em.farfield import far_field
+
+        members = [e for e in self.group if e.name not in without]
+        model = self.factory(members, self.settings, max(self.settings.sweep_to_hz, f_hz),
+                             params)
+        self.evaluations += 1
+        sol = model.solve(f_hz)
+        z = complex(sol.z_in)
+        if match is not None:
+            z = complex(match.transform(z, f_hz)[0])
+        swr = float(self.settings.chain.swr_system(_np.array([z]), _np.array([f_hz]))[0])
+        ff = far_field(sol, model)
+        g = ff.gain(_np.array([_m.pi / 2, _m.pi / 2]), _np.array([0.0, _m.pi]))
+        gf, gb = float(g[0]), float(g[1])
+        return BeamFigures(z, swr, 10 * _m.log10(max(gf, 1e-30)),
+                           10 * _m.log10(max(gf, 1e-30) / max(gb, 1e-30)))
+
+
+def _system_at_terminals(settings: ElectricalSettings, f_hz: float) -> complex:
+    """The terminal impedance (ohm) that the matching chain turns into the system
+    impedance at `f_hz` (what a match at the feed should present), by a few Newton
+    steps on the chain's own transform."""
+    chain = settings.chain
+    z = complex(chain.system_ohm * chain.matching.ratio)
+    for _ in range(20):
+        g = complex(chain.at_radio(np.array([z]), np.array([f_hz]))[0]) - chain.system_ohm
+        h = 1e-6 * max(abs(z), 1.0)
+        d = (complex(chain.at_radio(np.array([z + h]), np.array([f_hz]))[0])
+             - chain.system_ohm - g) / h
+        if d == 0:
+            break
+        step = g / d
+        z -= step
+        if abs(step) < 1e-9 * abs(z):
+            break
+    return z
+
+
+def tune_beam(plan: Plan, element: ElementPlan, settings: ElectricalSettings, target_hz: float,
+              *, goal: Goal | None = None, factory: ModelFactory = structure_model_of,
+              max_goal_evaluations: int | None = None) -> BeamTuneResult:
+    """Tune a beam at `target_hz`: with a `goal`, first the parasitic elements' lengths
+    (within the goal's bounds, by Nelder and Mead's simplex search over the model's
+    forward gain and front-to-back); then the driven element and its matching device
+    so that the SWR through the matching is least at the target.
+
+    Hairpin: the starting point is fabplan.antennas.matching.hairpin_match on the
+    driven element's impedance without the hairpin (its resistance gives the network's
+    Q; the element is shortened to the capacitive reactance the network asks for, by
+    the secant method on the model), then Newton's method on the two lengths (driven,
+    hairpin legs) drives the reflection at the target to zero. Gamma and T: the
+    published design (gamma_match, t_match) on the element's centre impedance gives
+    the rod length and capacitor outright. Without a match: the driven element's
+    length for least SWR (`tune`)."""
+    beam = _Beam(plan, element, settings, factory)
+    params = {e.name: e.spec.params for e in beam.group}
+    matches: dict[str, Any] = {}
+    changes: list[Change] = []
+    spec = element.spec
+    m = spec.match
+    part = next((e for e in plan.elements if e.spec.part_of == element.name), None)
+    device = _device(beam, element, m)
+    before = beam.figures(target_hz, {}, device)
+    if goal is not None:
+        params, found = _goal_search(beam, params, goal, target_hz, device,
+                                     max_goal_evaluations)
+        changes += found
+    start = "no matching device: the driven element's length for least SWR"
+    network = None
+    if m is None:
+        r = tune(plan, element, settings, target_hz, tune_for="least-swr", factory=factory)
+        params[element.name] = r.new_params
+        start = f"least SWR on target by the secant method ({r.iterations} steps)"
+    elif m.kind == "hairpin" and part is not None:
+        params, start, network = _tune_hairpin(beam, element, part, params, target_hz)
+    elif m.kind in ("gamma", "t-match"):
+        params, new_match, start = _tune_line_match(beam, element, params, target_hz)
+        matches[element.name] = new_match
+        device = _device(beam, element, new_match)
+        for key, kind, old, new in (("match.length", "length", m.length_mm, new_match.length_mm),
+                                    ("match.capacitance", "capacitance",
+                                     m.capacitance_f or 0.0, new_match.capacitance_f or 0.0)):
+            changes.append(Change(element.name, key, kind, old, new))
+    for e in beam.group:
+        old, new = e.spec.params, params[e.name]
+        if new is old or e.spec.part_of is not None or e.name == "boom":
+            continue
+        key, value = SHAPES[e.spec.shape].governing(new)
+        _, was = SHAPES[e.spec.shape].governing(old)
+        if abs(value - was) > 1e-9 and not any(c.element == e.name and c.key == key
+                                               for c in changes):
+            changes.append(Change(e.name, key, "length", was, value))
+    if part is not None and params.get(part.name) is not part.spec.params:
+        changes.append(Change(element.name, "match.length", "length",
+                              part.spec.params.leg_mm, params[part.name].leg_mm))
+    after = beam.figures(target_hz, {k: v for k, v in params.items()}, device)
+    changes = _latest(changes)
+    return BeamTuneResult(element.name, None if m is None else m.kind, target_hz, goal, start,
+                          tuple(changes), before, after, beam.evaluations, params, matches,
+                          network)
+
+
+def _latest(changes: list[Change]) -> list[Change]:
+    """One change per value: the first old value and the last new one."""
+    out: dict[tuple[str, str], Change] = {}
+    for c in changes:
+        first = out.get((c.element, c.key))
+        out[(c.element, c.key)] = c if first is None else dataclasses.replace(c, old=first.old)
+    return [c for c in out.values() if abs(c.new - c.old) > 1e-12]
+
+
+def _device(beam: _Beam, element: ElementPlan, match: Any) -> Any:
+    if match is None or not match.line_modelled:
+        return None
+    from .em.devices import line_match
+
+    e = next(x for x in beam.group if x.name == element.name)
+    device = line_match([dataclasses.replace(e, spec=dataclasses.replace(e.spec, match=match))])
+    if device is not None and device.capacitance_f is None:
+        return None  # solved by the electrical check; the tuner designs it
+    return device
+
+
+def _tune_hairpin(beam: _Beam, element: ElementPlan, part: ElementPlan,
+                  params: dict[str, Any], target_hz: float) -> tuple[dict[str, Any], str, Any]:
+    from .antennas.matching import hairpin_match
+
+    params = dict(params)
+    name, hp = element.name, part.name
+    shape = SHAPES[element.spec.shape]
+    key, length = shape.governing(params[name])
+    z_sys = _system_at_terminals(beam.settings, target_hz)
+    now = beam.figures(target_hz, params)
+    if now.swr < NEAR_SWR:  # near already: refine the design's own lengths
+        params, steps = _newton_hairpin(beam, params, name, hp, shape, target_hz, z_sys)
+        return params, (f"the design's lengths (SWR {now.swr:.2f} at the target); "
+                        f"{steps} Newton step(s) on both lengths"), None
+    # 1. the element alone (no hairpin): its resistance sets the network
+    alone = beam.figures(target_hz, params, without=(hp,)).z_ohm
+    gap = part.spec.params.centre_spacing(part.pieces[0].conductor_diameter_mm)
+    design = hairpin_match(max(alone.real, 1e-3), z_sys.real, target_hz, rod_spacing_mm=gap,
+                           rod_diameter_mm=part.pieces[0].conductor_diameter_mm,
+                           element_reactance_ohm=alone.imag)
+    # 2. shorten the element to the capacitive reactance the network asks for (secant)
+    xs, ys = [length], [alone.imag - design.element_reactance_ohm]
+    x = length * (1 - 0.01 * (1 if ys[0] > 0 else -1))
+    for _ in range(MAX_ITERATIONS):
+        p = shape.with_governing(params[name], x)
+        z = beam.figures(target_hz, {**params, name: p}, without=(hp,)).z_ohm
+        xs.append(x)
+        ys.append(z.imag - design.element_reactance_ohm)
+        if abs(ys[-1]) < 0.05 or ys[-1] == ys[-2]:
+            break
+        x = xs[-1] - ys[-1] * (xs[-1] - xs[-2]) / (ys[-1] - ys[-2])
+    params[name] = shape.with_governing(params[name], xs[-1])
+    leg = max(design.length_mm - gap / 2, 2 * gap)
+    params[hp] = dataclasses.replace(params[hp], leg_mm=leg)
+    start = (f"hairpin_match on the element alone: R = {alone.real:.1f} ohm, so Q = "
+             f"{design.q:.2f}; element made {design.element_reactance_ohm:.1f} ohm reactive; "
+             f"hairpin {design.length_mm:.1f} mm of {design.z0_ohm:.0f} ohm line")
+    params, steps = _newton_hairpin(beam, params, name, hp, shape, target_hz, z_sys)
+    return params, start + f"; then {steps} Newton step(s) on both lengths", design
+
+
+def _newton_hairpin(beam: _Beam, params: dict[str, Any], name: str, hp: str, shape: Any,
+                    target_hz: float, z_sys: complex) -> tuple[dict[str, Any], int]:
+    """Newton's method on (element length, hairpin legs): the reflection at the target
+    to zero, each step limited to 2 % of the element and 30 % of the legs."""
+    params = dict(params)
+    steps = 0
+    while steps < MATCH_STEPS:
+        base = _gamma(beam, params, target_hz, z_sys)
+        if abs(base) < (MATCH_SWR - 1) / (MATCH_SWR + 1):
+            break
+        steps += 1
+        cols = []
+        for who, h in ((name, 1e-3 * shape.governing(params[name])[1]),
+                       (hp, 1e-2 * params[hp].leg_mm)):
+            trial = dict(params)
+            trial[who] = _moved(trial[who], who == name, shape, h)
+            cols.append((_gamma(beam, trial, target_hz, z_sys) - base) / h)
+        j = np.array([[cols[0].real, cols[1].real], [cols[0].imag, cols[1].imag]])
+        try:
+            dx = np.linalg.solve(j, -np.array([base.real, base.imag]))
+        except np.linalg.LinAlgError:
+            break
+        limit = np.array([0.02 * shape.governing(params[name])[1], 0.3 * params[hp].leg_mm])
+        scale = float(min(1.0, *(limit / np.maximum(np.abs(dx), 1e-12))))
+        params[name] = _moved(params[name], True, shape, float(dx[0]) * scale)
+        params[hp] = _moved(params[hp], False, shape, float(dx[1]) * scale)
+    return params, steps
+
+
+def _moved(p: Any, governing: bool, shape: Any, by: float) -> Any:
+    if governing:
+        return shape.with_governing(p, shape.governing(p)[1] + by)
+    return dataclasses.replace(p, leg_mm=p.leg_mm + by)
+
+
+def _gamma(beam: _Beam, params: dict[str, Any], f_hz: float, z_t: complex) -> complex:
+    z = beam.figures(f_hz, params).z_ohm
+    return (z - z_t) / (z + z_t.conjugate())
+
+
+def _tune_line_match(beam: _Beam, element: ElementPlan, params: dict[str, Any],
+                     target_hz: float) -> tuple[dict[str, Any], Any, str]:
+    """A gamma or T match: the driven element's length that lets the rod keep the
+    design's length (its strap where the design puts it), by the secant method on the
+    published design's rod length against the element's length; then the capacitor.
+    When no length within +-8 % does, the design at the element's own length."""
+    m = element.spec.match
+    if m is None:
+        raise DesignError("no matching device", field="match")
+    name = element.name
+    shape = SHAPES[element.spec.shape]
+    _, l0 = shape.governing(params[name])
+
+    def rod_error(length: float) -> float | None:
+        trial = {**params, name: shape.with_governing(params[name], length)}
+        try:
+            design, _ = _design_line_match(beam, element, trial, target_hz)
+        except DesignError:
+            return None
+        return float(design.length_mm - m.length_mm)
+
+    # a scan of the element's length (the rod's length is not monotonic in it: the
+    # published design jumps between branches where the element's reactance crosses zero)
+    scan = [(x, rod_error(x)) for x in np.linspace(0.92 * l0, 1.08 * l0, 9)]
+    valid = [(float(x), y) for x, y in scan if y is not None]
+    if not valid:
+        new, how = _design_line_match(beam, element, params, target_hz)
+        return params, new, how
+    best_x, best_y = min(valid, key=lambda xy: abs(xy[1]))
+    for (xa, ya), (xb, yb) in zip(valid, valid[1:]):
+        if ya * yb <= 0 and abs(ya - yb) < 0.5 * m.length_mm + 1.0:  # one branch
+            for _ in range(MAX_ITERATIONS):
+                x = xb - yb * (xb - xa) / (yb - ya) if yb != ya else xb
+                y = rod_error(x)
+                if y is None:
+                    break
+                if abs(y) < abs(best_y):
+                    best_x, best_y = x, y
+                if abs(y) < 0.2:
+                    break
+                (xa, ya), (xb, yb) = ((xa, ya), (x, y)) if ya * y <= 0 else ((x, y), (xb, yb))
+            break
+    params = {**params, name: shape.with_governing(params[name], best_x)}
+    new, how = _design_line_match(beam, element, params, target_hz)
+    if abs(best_y) < 0.2:
+        return params, new, (f"{how}; the element's length chosen (scan, then the secant "
+                             f"method) so that the rod keeps its {m.length_mm:.1f} mm")
+    return params, new, (f"{how}; no element length within +-8 % keeps the rod at "
+                         f"{m.length_mm:.1f} mm: the nearest rod length found")
+
+
+def _design_line_match(beam: _Beam, element: ElementPlan, params: dict[str, Any],
+                       target_hz: float) -> tuple[Any, str]:
+    from .antennas.matching import gamma_match, t_match
+
+    m = element.spec.match
+    if m is None:
+        raise DesignError("no matching device", field="match")
+    z_sys = _system_at_terminals(beam.settings, target_hz).real
+    zd = beam.figures(target_hz, params).z_ohm
+    e = next(x for x in beam.group if x.name == element.name)
+    rod = (m.stock or e.stock).profile.outer_diameter_mm
+    d = e.stock.profile.outer_diameter_mm
+    if m.kind == "gamma":
+        g = gamma_match(zd, z_sys, target_hz, spacing_mm=m.spacing_mm or 0.0,
+                        rod_diameter_mm=rod, element_diameter_mm=d)
+        new = dataclasses.replace(m, length_mm=g.rod_length_mm, capacitance_f=g.capacitance_f)
+        return new, (f"gamma_match on the element's centre impedance {zd.real:.1f} "
+                     f"{'+' if zd.imag >= 0 else '-'} j{abs(zd.imag):.1f} ohm (step-up "
+                     f"{g.step_up:.2f})")
+    t = t_match(zd, z_sys, target_hz, spacing_mm=m.spacing_mm or 0.0, rod_diameter_mm=rod,
+                element_diameter_mm=d)
+    new = dataclasses.replace(m, length_mm=t.t_length_mm, capacitance_f=t.capacitance_each_f)
+    return new, (f"t_match on the element's centre impedance {zd.real:.1f} "
+                 f"{'+' if zd.imag >= 0 else '-'} j{abs(zd.imag):.1f} ohm (step-up "
+                 f"{t.step_up:.2f})")
+
+
+def _goal_search(beam: _Beam, params: dict[str, Any], goal: Goal, target_hz: float,
+                 device: Any, max_evaluations: int | None) -> tuple[dict[str, Any], list[Change]]:
+    """Nelder and Mead's simplex search over the parasitic elements' lengths (each
+    within +-goal.within of its design value) for the goal; a floor on the other
+    figure is a penalty of 3 dB per dB short."""
+    from scipy.optimize import minimize  # type: ignore[import-untyped, unused-ignore]
+
+    parasitic = [e for e in beam.group
+                 if not e.fed and e.spec.part_of is None and e.name != "boom"]
+    if not parasitic:
+        raise DesignError("the goal moves the parasitic elements, and none is modelled with "
+                          "the driven element", field="--goal")
+    shapes = [SHAPES[e.spec.shape] for e in parasitic]
+    x0 = [s.governing(params[e.name])[1] for e, s in zip(parasitic, shapes)]
+
+    def trial(u: np.ndarray) -> dict[str, Any]:
+        out = dict(params)
+        for e, s, base, ui in zip(parasitic, shapes, x0, u):
+            out[e.name] = s.with_governing(params[e.name],
+                                           base * (1 + goal.within * float(np.clip(ui, -1, 1))))
+        return out
+
+    def cost(u: np.ndarray) -> float:
+        f = beam.figures(target_hz, trial(u), device)
+        if goal.kind == "max-gain":
+            short = (0.0 if goal.front_to_back_db is None
+                     else max(0.0, goal.front_to_back_db - f.front_to_back_db))
+            return -f.gain_dbi + 3 * short
+        short = 0.0 if goal.gain_dbi is None else max(0.0, goal.gain_dbi - f.gain_dbi)
+        return -min(f.front_to_back_db, 60.0) + 3 * short
+
+    n = len(parasitic)
+    limit = max_evaluations or GOAL_EVALUATIONS * n
+    res = minimize(cost, np.zeros(n), method="Nelder-Mead",
+                   bounds=[(-1.0, 1.0)] * n,
+                   options={"maxfev": limit, "xatol": 2e-3, "fatol": 1e-3,
+                            "initial_simplex": np.vstack([np.zeros(n), 0.4 * np.eye(n)])})
+    best = trial(np.asarray(res.x, float))
+    changes = [Change(e.name, s.governing(best[e.name])[0], "length", base,
+                      s.governing(best[e.name])[1])
+               for e, s, base in zip(parasitic, shapes, x0)]
+    return best, changes
+
+
+def driven_element(plan: Plan, name: str | None) -> ElementPlan:
+    """The fed element of a beam: `name`, or the only element the model feeds (a whole
+    element fed through a gamma or T match counts)."""
+    fed = [e for e in plan.elements
+           if e.geometry.modelled.feed is not None and e.spec.capacitor is None
+           and e.spec.part_of is None]
+    if name is not None:
+        chosen = next((e for e in fed if e.name == name), None)
+        if chosen is None:
+            return fed_element(plan, name)  # its own message
+        return chosen
+    if len(fed) == 1:
+        return fed[0]
+    return fed_element(plan, None)
+
+
+def beam_values(result: BeamTuneResult) -> dict[str, dict[str, TunedValue | tuple[str, float]]]:
+    """The design-file values a beam tuning changed, by element: each length key of
+    the element's table and its match table ("match.length", "match.capacitance")."""
+    out: dict[str, dict[str, TunedValue | tuple[str, float]]] = {}
+    for c in result.changes:
+        out.setdefault(c.element, {})[c.key] = (
+            "capacitance" if c.kind == "capacitance" else "length", c.new)
+    return out

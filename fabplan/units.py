@@ -379,3 +379,12 @@ def parse_resistance(text: object, field: str) -> float:
 def parse_voltage(text: object, field: str) -> float:
     """"5 kV", "500 V" -> volts (positive, at most 1 MV)."""
     return _part(text, field, _VOLTAGE, "a voltage", '"5 kV"', 1e6)
+
+
+def format_capacitance(farads: float) -> str:
+    """A capacitance for people: "33.0 pF", "1.20 nF" (F in)."""
+    if farads < 1e-9:
+        return f"{farads * 1e12:.1f} pF"
+    if farads < 1e-6:
+        return f"{farads * 1e9:.2f} nF"
+    return f"{farads * 1e6:.2f} uF"

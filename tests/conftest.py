@@ -409,3 +409,51 @@ def _uncomment_optional_tables(text: str) -> str:
 @pytest.fixture(scope="session")
 def uncomment_template():
     return _uncomment_optional_tables
+
+
+# -- beams on a boom ---------------------------------------------------------------------
+BEAM_EXAMPLE = ROOT / "examples" / "field-day-2m-beam.toml"
+
+
+@pytest.fixture
+def beam_example_path() -> Path:
+    return BEAM_EXAMPLE
+
+
+@pytest.fixture(scope="session")
+def beam_plan():
+    """The 2 m beam example's Plan, made once per test session (read only)."""
+    from fabplan.design.read import load_design
+    from fabplan.plan import make_plan
+
+    return make_plan(load_design(BEAM_EXAMPLE))
+
+
+BEAM_TOML = """
+[project]
+name = "test beam"
+[stock]
+catalogue = "al-rod-1/4"
+[shop]
+units = "mm"
+[boom]
+{boom}
+length = "{boom_length}"
+mounting = "{mounting}"
+frequency = "{frequency}"
+{elements}
+"""
+
+
+@pytest.fixture
+def beam_toml():
+    """A beam design's text: the [boom] stock keys, its length, mounting and the
+    correction's frequency, and the elements' tables (TOML text)."""
+
+    def make(elements: str, boom: str = 'square = { side = "1 in", wall = "1/16 in" }\n'
+             'material = "al-6063-t5"', boom_length: str = "1000 mm",
+             mounting: str = "insulated", frequency: str = "145 MHz") -> str:
+        return BEAM_TOML.format(boom=boom, boom_length=boom_length, mounting=mounting,
+                                frequency=frequency, elements=elements)
+
+    return make

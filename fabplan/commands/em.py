@@ -98,7 +98,7 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
         plan_electrical_text,
         sweep_lines,
     )
-    from ..tuning import fed_element
+    from ..tuning import driven_element, fed_element
 
     if is_dash(csv_path) and is_dash(s1p_path):
         raise DesignError("only one of --csv and --s1p can go to standard output",
@@ -115,9 +115,9 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     settings = dataclasses.replace(settings, sweep_from_hz=lo, sweep_to_hz=hi, sweep_step_hz=step)
     plan = _core_plan(d)
     if element_name is not None:
-        chosen = [fed_element(plan, element_name)]
-    else:
-        chosen = [e for e in plan.elements if e.feed_gap_mm is not None]
+        chosen = [driven_element(plan, element_name)]
+    else:  # a whole element fed through a gamma or T match counts (the model feeds it)
+        chosen = [e for e in plan.elements if e.geometry.modelled.feed is not None]
         if not chosen:
             fed_element(plan, None)  # raises: nothing to sweep
     inputs = [electrical_input(d, e.spec, e.geometry, e.pieces) for e in plan.elements]
@@ -166,14 +166,21 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
               help="Put least SWR (default: [electrical] tune_for) or resonance on target.")
 @click.option("--element", "element_name", metavar="NAME",
               help="The element to tune (needed when several have a feed gap).")
+@click.option("--goal", metavar="GOAL",
+              help='A beam: also move the parasitic elements for "max-gain", '
+                   '"max-front-to-back", "front-to-back>=20dB" (most gain with it) or '
+                   '"gain>=8dBi" (most front-to-back with it).')
+@click.option("--within", type=click.FloatRange(0.1, 30.0), default=5.0, show_default=True,
+              metavar="PERCENT", help="With --goal: how far (+-%) each parasitic length may move.")
 @output_path("Write the tuned design to this file; the report then goes to standard error "
              "when it is `-`")
 @click.option("--force", is_flag=True, help="Replace an existing output file.")
 @guarded
 def tune(design: Path, target: str | None, measured: str | None, measured_kind: str | None,
-         tune_for: str | None, element_name: str | None, output: Path | None,
-         force: bool) -> None:
-    """Find the element length that puts least SWR (or resonance) on target."""
+         tune_for: str | None, element_name: str | None, goal: str | None, within: float,
+         output: Path | None, force: bool) -> None:
+    """Find the element length that puts least SWR (or resonance) on target; for a beam
+    with a matching device (or a --goal), the driven element and the match together."""
     from .. import tuning
     from ..design.rewrite import rewrite_element
     from ..em.stage import plan_electrical
@@ -197,6 +204,11 @@ def tune(design: Path, target: str | None, measured: str | None, measured_kind: 
         raise DesignError('give --target "FREQ" or set target in [electrical]', field="--target")
     measured_hz = _frequency(measured, "--measured", None)
     plan = _core_plan(d)
+    if measured_hz is None and (goal is not None or any(
+            e.spec.match is not None for e in plan.elements if e.spec.part_of is None)):
+        _tune_beam(design, d, plan, settings, target_hz, element_name, goal, within, output,
+                   force)
+        return
     element = tuning.fed_element(plan, element_name)
     if measured_hz is not None and measured_kind is not None:
         from ..measuring import correct_single
@@ -223,6 +235,38 @@ def tune(design: Path, target: str | None, measured: str | None, measured_kind: 
                              f"{settings.target_hz / 1e6:g} MHz; only the length was changed")
         else:
             lines += ["", "use -o NEW.toml to write the tuned design"]
+    pe = plan_electrical(settings)
+    lines += [""] + [f"CAUTION: {c}" for c in pe.cautions]
+    click.echo("\n".join(lines), err=is_dash(output))
+
+
+def _tune_beam(design: Path, d: Any, plan: Any, settings: Any, target_hz: float,
+               element_name: str | None, goal: str | None, within: float, output: Path | None,
+               force: bool) -> None:
+    """`tune` for a beam: the driven element with its match, and the parasitics for a goal."""
+    from .. import tuning
+    from ..design.read import parse_design
+    from ..design.rewrite import rewrite_element
+    from ..em.stage import plan_electrical
+    from ..render.tuning import beam_tune_text
+
+    element = tuning.driven_element(plan, element_name)
+    aim = None if goal is None else tuning.parse_goal(goal, within / 100)
+    r = tuning.tune_beam(plan, element, settings, target_hz, goal=aim)
+    lines = beam_tune_text(r, d)
+    if output is not None:
+        text = design_text(design)
+        current = d
+        shown = []
+        for name, values in tuning.beam_values(r).items():
+            text, changes = rewrite_element(text, current, name, values,  # type: ignore[arg-type]
+                                            str(output))
+            current = parse_design(text, str(output))
+            shown += [f"{name}: {k} = \"{v}\"" for k, v in changes.items()]
+        write_one_text(output, text, force)
+        lines += ["", f"tuned design: {'; '.join(shown)}"]
+    else:
+        lines += ["", "use -o NEW.toml to write the tuned design"]
     pe = plan_electrical(settings)
     lines += [""] + [f"CAUTION: {c}" for c in pe.cautions]
     click.echo("\n".join(lines), err=is_dash(output))

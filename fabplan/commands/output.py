@@ -48,6 +48,7 @@ BUILD_NAMES = {
     "template": "template-1to1.pdf",
     "sweep": "sweep.csv",
     "predicted": PREDICTED_NAME,  # the predicted sweep, to overlay in an analyser's software
+    "drilling": "drilling-1to1.pdf",
 }
 
 
@@ -146,6 +147,12 @@ def build_files(plan: Any, paper: str | None = None, template_paper: str | None 
     progress("drawing the full-scale template")
     files[BUILD_NAMES["template"]] = template_pdf(
         plan, template_paper or paper or default_paper(plan.design.shop.units))
+    if plan.drilling:
+        from ..render.wrap import drilling_pdf
+
+        progress("drawing the wrap-around drilling templates")
+        files[BUILD_NAMES["drilling"]] = drilling_pdf(
+            plan, template_paper or paper or default_paper(plan.design.shop.units))
     return files
 
 
@@ -167,7 +174,8 @@ def build_files(plan: Any, paper: str | None = None, template_paper: str | None 
 def build(design: Path, output: Path, paper: str | None, template_paper: str | None,
           force: bool, with_errors: bool, measured: str | None, **reading: Any) -> None:
     """Write everything: plan.json, jig DXF/SVG, build sheet, 1:1 template, sweep CSV,
-    predicted .s1p; with --measured, the sheet compares the first article."""
+    predicted .s1p, and the wrap-around drilling templates when there are holes to drill;
+    with --measured, the sheet compares the first article."""
     from ..render.files import check_writable, write_set
 
     if is_dash(output):

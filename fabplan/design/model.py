@@ -19,9 +19,11 @@ from ..stock.profiles import Profile
 from ..units import LengthUnit
 
 if TYPE_CHECKING:  # pragma: no cover
+    from .boom import BoomSpec, MountSpec
     from .electrical import ElectricalSettings
     from .forming import FormingSettings
     from .jig import JigSettings
+    from .match import MatchSpec
     from .purchase import PurchaseSettings
 
 __all__ = ["Design", "ElementSpec", "StockSpec", "Shop", "CapacitorSpec"]
@@ -71,6 +73,9 @@ class ElementSpec:
     `placement` puts the element's frame into the assembly's frame: the elements
     that have one are modelled together, as one antenna (None: the element stands
     alone). `capacitor`: the element's gap holds a capacitor, not the feed.
+    `boom`: its place on the design's boom (fabplan.design.boom); `match`: its
+    matching device (fabplan.design.match), and on the part the device is made as,
+    the same; `part_of`: the element a part (a matching device) belongs to.
     """
 
     name: str
@@ -81,6 +86,9 @@ class ElementSpec:
     stock: StockSpec | None = None
     placement: Placement | None = None
     capacitor: CapacitorSpec | None = None
+    boom: MountSpec | None = None
+    match: MatchSpec | None = None
+    part_of: str | None = None
 
 
 @dataclass(frozen=True)
@@ -98,6 +106,7 @@ class Design:
     electrical: ElectricalSettings | None = None
     notes: str = ""
     raw: dict[str, Any] = field(default_factory=dict, compare=False, repr=False)
+    boom: BoomSpec | None = None
 
     def stock_of(self, element: ElementSpec) -> StockSpec:
         """The stock an element is bent from: its own, or the design's."""

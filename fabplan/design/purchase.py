@@ -11,6 +11,7 @@
 
     [[purchase.offer]]        # one per stock length or source; the cheapest mix is bought
     name = "10 ft straight"
+    stock = "al-1/2x0.058"    # the stock it is for: a catalogue key (default: [stock])
     length = "10 ft"
     price = 18.40
     per = "piece"             # or "m", "ft", "in" (per length) or "kg", "lb" (per weight)
@@ -33,6 +34,7 @@ from typing import Literal
 
 from ..errors import DesignError, did_you_mean
 from ..section import Section
+from ..stock.catalogue import get_stock_item
 from ..units import Currency, parse_currency, parse_mass
 
 __all__ = ["Offer", "LineItem", "PurchaseSettings", "read_purchase", "PriceUnit", "PRICE_UNITS"]
@@ -53,6 +55,7 @@ class Offer:
     ends_mm: float
     source: str
     field: str  # where it is in the design, e.g. "purchase.offer[2]"
+    stock: str | None = None  # the catalogue key it is for; None: the design's [stock]
 
     @property
     def usable_mm(self) -> float:
@@ -141,12 +144,15 @@ def _read_offer(sec: Section, default_ends: float) -> Offer:
     per = sec.string("per", "piece", choices=PRICE_UNITS)
     ends = sec.length("ends", default_ends, allow_zero=True)
     source = sec.string("source", "")
+    stock = sec.string("stock", None)
+    if stock is not None:
+        get_stock_item(stock, sec.field("stock"))
     sec.finish()
     if 2 * ends >= length:
         where = sec.field("ends") if sec.has("ends") else "purchase.ends"
         raise DesignError(f"the unusable ends take the whole {sec.raw('length')} stock length",
                           field=where, value=ends)
-    return Offer(name, length, price, per, ends, source, sec.path)
+    return Offer(name, length, price, per, ends, source, sec.path, stock)
 
 
 def _read_item(sec: Section) -> LineItem:

@@ -21,10 +21,13 @@ from ..stock.catalogue import get_stock_item
 from ..stock.materials import OVERRIDABLE, get_material
 from ..stock.profiles import Profile, Round, Strip, Tube, parse_gauge
 from ..units import FRACTIONS, LENGTH_UNITS
+from .beam import beam_elements
+from .boom import MOUNT_KEYS, read_boom, read_mount
 from .electrical import read_electrical
 from .element import EXTRA_KEYS, read_element_extras
 from .forming import read_forming
 from .jig import read_jig
+from .match import read_match
 from .model import Design, ElementSpec, Shop, StockSpec
 from .purchase import read_purchase
 
@@ -65,13 +68,16 @@ def read_design(doc: dict[str, Any], source: str = "<design>") -> Design:
     stock = _read_stock(top.table("stock"))
     shop = _read_shop(top.table("shop", None))
     elements = _read_elements(top)
+    boom = read_boom(top)
+    electrical = read_electrical(top)
+    elements = beam_elements(elements, boom, _element_fields(top, len(elements)),
+                             lambda e: e.stock if e.stock is not None else stock, electrical)
     forming = read_forming(top, stock)
     purchase = read_purchase(top, [e.name for e in elements])
-    electrical = read_electrical(top)
     jig = read_jig(top)
     top.finish()
     return Design(project, elements, stock, shop, source, forming, purchase, jig, electrical,
-                  notes, doc)
+                  notes, doc, boom=boom)
 
 
 def _read_stock(sec: Section) -> StockSpec:
@@ -167,10 +173,18 @@ def _read_elements(top: Section) -> tuple[ElementSpec, ...]:
         quantity = sec.integer("quantity", 1, low=1, high=100_000)
         trim = sec.length("trim", None, allow_zero=True)
         # misspelt keys first: they explain the rest
-        sec.finish(also_allowed=SHAPES[shape].keys + EXTRA_KEYS)
+        sec.finish(also_allowed=SHAPES[shape].keys + EXTRA_KEYS + MOUNT_KEYS + ("match",))
         stock, placement, capacitor = read_element_extras(sec, _read_stock)
+        mount, match = read_mount(sec), read_match(sec, _read_stock)
         params = SHAPES[shape].read(sec)
         sec.finish()
         out.append(ElementSpec(name, shape, params, quantity, trim, stock, placement,
-                               capacitor))
+                               capacitor, mount, match))
     return tuple(out)
+
+
+def _element_fields(top: Section, count: int) -> list[str]:
+    """Each element's table as errors name it."""
+    if isinstance(top.data.get("element"), dict):
+        return ["element"]
+    return [f"element[{i}]" for i in range(1, count + 1)]

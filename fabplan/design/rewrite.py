@@ -16,13 +16,15 @@ from collections.abc import Callable, Mapping
 from typing import Any, Literal
 
 from ..errors import DesignError
-from ..units import IN, LengthUnit, parse_length
+from ..units import IN, LengthUnit, parse_capacitance, parse_length
 from .model import Design
 
 __all__ = ["length_text", "rewrite_element", "Value"]
 
-# ("length", mm) is written as a length string in the shop's unit; ("number", x) as a number
-Value = tuple[Literal["length", "number"], float]
+# ("length", mm) is written as a length string in the shop's unit; ("number", x) as a number;
+# ("capacitance", F) as "33.00 pF". A key "match.length" is `length` in the element's
+# `[element.match]` table.
+Value = tuple[Literal["length", "number", "capacitance"], float]
 
 
 def length_text(mm: float, unit: LengthUnit) -> str:
@@ -53,23 +55,26 @@ def rewrite_element(text: str, design: Design, element_name: str, values: Mappin
 
     from .read import parse_design
 
-    index = [e.name for e in design.elements].index(element_name)
+    # the element's table in the file (a matching device's part has none of its own)
+    index = [e.name for e in design.elements if e.part_of is None].index(element_name)
     doc = tomlkit.parse(text.removeprefix("\ufeff"))
     table = _element_table(doc, index)
     unit = design.shop.units
     written: dict[str, str] = {}
     for key, (kind, value) in values.items():
-        if key not in table:
+        host, leaf = _host(table, key)
+        if host is None or leaf not in host:
             continue
-        if kind == "length":
-            if not isinstance(table[key], str):
+        if kind in ("length", "capacitance"):
+            if not isinstance(host[leaf], str):
                 continue
-            new: Any = length_text(value, unit)
+            new: Any = (length_text(value, unit) if kind == "length"
+                        else f"{value * 1e12:.2f} pF")
             written[key] = new
         else:
             new = round(value, 6)
             written[key] = f"{new:g}"
-        table[key] = new  # tomlkit keeps the key's layout and its comment
+        host[leaf] = new  # tomlkit keeps the key's layout and its comment
     if not written:
         keys = ", ".join(values) or "none"
         raise DesignError(f"none of the keys that carry this length ({keys}) is in the "
@@ -83,14 +88,31 @@ def rewrite_element(text: str, design: Design, element_name: str, values: Mappin
     return new_text, written
 
 
+def _host(table: Any, key: str) -> tuple[Any, str]:
+    """The (sub-)table that holds a dotted `key`, and the key's last part."""
+    *path, leaf = key.split(".")
+    for part in path:
+        table = table.get(part) if isinstance(table, Mapping) else None
+        if not isinstance(table, Mapping):
+            return None, leaf
+    return table, leaf
+
+
 def _verify(fresh: Design, design: Design, index: int, values: Mapping[str, Value],
             written: Mapping[str, str]) -> None:
     table = _element_table(fresh.raw, index)
     for key in written:
         kind, want = values[key]
-        got = parse_length(table[key], key) if kind == "length" else float(table[key])
-        if abs(got - want) > (0.01 if kind == "length" else 1e-6 * max(1.0, abs(want))):
-            raise DesignError(f"the rewritten file gives {key} = {table[key]!r}, not "
+        host, leaf = _host(table, key)
+        text = host[leaf]
+        if kind == "length":
+            got, tol = parse_length(text, key), 0.01
+        elif kind == "capacitance":
+            got, tol = parse_capacitance(text, key), 0.01e-12
+        else:
+            got, tol = float(text), 1e-6 * max(1.0, abs(want))
+        if abs(got - want) > tol:
+            raise DesignError(f"the rewritten file gives {key} = {text!r}, not "
                               f"{want:g}; change the length by hand", field=key)
     if _without(fresh.raw, index, written) != _without(design.raw, index, written):
         raise DesignError("rewriting the length changed something else in the file; change the "
@@ -101,5 +123,7 @@ def _without(raw: Mapping[str, Any], index: int, keys: Mapping[str, str]) -> dic
     out = copy.deepcopy(dict(raw))
     table = _element_table(out, index)
     for k in keys:
-        table.pop(k, None)
+        host, leaf = _host(table, k)
+        if host is not None:
+            host.pop(leaf, None)
     return out

@@ -65,12 +65,19 @@ class ElectricalInput:
     @property
     def fed(self) -> bool:
         """The element has a feed gap (and no capacitor in it)."""
-        return self.geometry.feed is not None and self.spec.capacitor is None
+        return self.geometry.modelled.feed is not None and self.spec.capacitor is None
 
     @property
     def gap_mm(self) -> float | None:
-        feed = self.geometry.feed
+        feed = self.geometry.modelled.feed
         return None if feed is None else feed.width_mm
+
+    @property
+    def line_part(self) -> bool:
+        """A matching device's part modelled as a transmission line (a gamma or T rod),
+        not as wires: the structure leaves it out."""
+        m = self.spec.match
+        return self.spec.part_of is not None and m is not None and m.line_modelled
 
 
 @dataclass(frozen=True)
@@ -131,6 +138,11 @@ def released_paths(element: ElectricalInput, params: Any = None
     if params is not None:
         geometry = SHAPES[element.spec.shape].element_geometry(
             params, element.stock.profile.outer_diameter_mm)
+    if geometry.model is not None:
+        # the model's conductors are not the pieces of stock (telescoping, fed or joined
+        # at the centre): straight runs, no bends to release
+        geometry = geometry.model
+        return tuple(p.path for p in geometry.pieces), geometry, False
     out = []
     released_all = bool(geometry.pieces)
     for i, piece in enumerate(geometry.pieces):
@@ -174,12 +186,14 @@ def build_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
     group = FEED_GROUP if n_ports > 1 else None
     feed_name = next((e.name for e in elements if e.fed), None)
     for e in elements:
+        if e.line_part:
+            continue
         paths, geometry, _ = released_paths(e, overrides.get(e.name))
-        c = conductor(e.stock, settings)
         place = _placement(e.spec.placement)
         base = len(wires)
         for piece, path in zip(geometry.pieces, paths):
-            wires.append(Wire(path, c.radius_mm, tube_wall_mm=c.tube_wall_mm,
+            c, steps = _conductor_along(e, piece.conductor_of, settings)
+            wires.append(Wire(path, c.radius_mm, steps=steps, tube_wall_mm=c.tube_wall_mm,
                               resistivity_ohm_m=c.resistivity_ohm_m, placement=place,
                               name=e.name if not piece.label else f"{e.name}, {piece.label}"))
             owners.append(e.name)
@@ -192,6 +206,24 @@ def build_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
                 element = _capacitor(e, settings, feed_name)
             gaps.append(Gap(ends[0], ends[1], element))
     return Structure(tuple(wires), tuple(gaps), ground_z_mm=settings.ground_z_mm()), tuple(owners)
+
+
+def _conductor_along(e: ElectricalInput, conductor_of: Sequence[tuple[float, int]],
+                     settings: ElectricalSettings
+                     ) -> tuple[Conductor, tuple[tuple[float, float], ...]]:
+    """A modelled conductor's stock where it starts, and where its radius steps (from
+    arc length mm, radius mm) as it runs through telescoping tubes."""
+    if not conductor_of:
+        return conductor(e.stock, settings), ()
+    radii = [(s, conductor(e.pieces[i].stock.spec, settings)) for s, i in conductor_of]
+    first = radii[0][1]
+    steps = []
+    last = first.radius_mm
+    for s, c in radii[1:]:
+        if abs(c.radius_mm - last) > 1e-12:
+            steps.append((float(s), c.radius_mm))
+            last = c.radius_mm
+    return first, tuple(steps)
 
 
 def _capacitor(e: ElectricalInput, settings: ElectricalSettings,

@@ -16,6 +16,7 @@ Pure: no files, no printing. Hz, ohm, mm, W.
 
 from __future__ import annotations
 
+import dataclasses
 import math
 from collections.abc import Callable, Mapping, Sequence
 from typing import Any
@@ -26,6 +27,7 @@ from ..design.electrical import ElectricalSettings
 from ..errors import FabplanError, Finding
 from ..feed import CoaxBalun
 from .build import ElectricalInput, build_structure, conductor, gap_points, groups, released_paths
+from .devices import Through, line_match
 from .records import (
     UNCERTAINTY_FRAC,
     BandFigures,
@@ -138,8 +140,16 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
     # the sweep has 3 points at least; where to solve next is chosen by the impedance,
     # and every fresh solve checks the efficiency and gains too
     fit = fit_sweep(solve, f_lo, f_hi, rtol=FIT_RTOL, guide=1)
-    fitted = _Fitted(fit, int(model.unknowns))
+    fitted: Any = _Fitted(fit, int(model.unknowns))
+    # a gamma or T match: the sweep is read at the device's input (fabplan.em.devices)
+    device = line_match(elements)
+    if device is not None:
+        device = device.solved_for(fitted.impedance(f0), f0)
+        fitted = Through(fitted, device)
     result, at_edge = analyse(fitted, settings.chain, freqs, near_hz=settings.target_hz)
+    if device is not None:
+        result = dataclasses.replace(result, matching=f"{device.describe()}, then "
+                                                      f"{result.matching}")
     g_f, g_b = fit.values(freqs, 2).real, fit.values(freqs, 3).real
     band = BandFigures(tuple(float(f) for f in freqs), tuple(_db(x) for x in g_f),
                        tuple(None if back is None or not (a > 0 and b > 0) else
@@ -149,6 +159,8 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
     power, stated = ((settings.power_w, True) if settings.power_w is not None
                      else (DEFAULT_POWER_W, False))
     loads = _loads(sol0, model, power, elements)
+    if device is not None:
+        loads += tuple(device.loads(complex(sol0.z_in), f0, power))
     findings += _load_findings(loads, power)
     structure, owners = build_structure(elements, settings)
     feeds, load_pts = gap_points(structure)

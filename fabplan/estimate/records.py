@@ -10,7 +10,8 @@ from dataclasses import dataclass
 from ..design.purchase import Offer
 from ..units import Currency
 
-__all__ = ["Cut", "StockPiece", "BuyLine", "ItemLine", "ElementEstimate", "Order"]
+__all__ = ["Cut", "StockPiece", "BuyLine", "ItemLine", "ElementEstimate", "Order",
+           "UnofferedStock"]
 
 
 
@@ -36,6 +37,7 @@ class StockPiece:
     cuts: tuple[Cut, ...]
     used_mm: float  # cuts plus kerfs
     remnant_mm: float  # usable length left after the last cut's kerf (0: none)
+    stock: str = ""  # which stock (catalogue key or description; "" the design's [stock])
 
     @property
     def utilisation(self) -> float:
@@ -56,6 +58,16 @@ class BuyLine:
     cost: float
     weight_kg: float
     source: str
+    stock: str = ""  # which stock (catalogue key or description; "" the design's [stock])
+
+
+@dataclass(frozen=True)
+class UnofferedStock:
+    """Cuts of a stock no offer is for: the stock, how many cuts, their total length (mm)."""
+
+    stock: str
+    cuts: int
+    length_mm: float
 
 
 @dataclass(frozen=True)
@@ -108,6 +120,7 @@ class Order:
     items_weight_kg: float
     stock_cost: float | None
     items_cost: float | None
+    unoffered: tuple[UnofferedStock, ...] = ()  # stocks with cuts and no offer for them
 
     @property
     def pieces_to_buy(self) -> int:

@@ -16,7 +16,7 @@ import math
 from collections.abc import Sequence
 from dataclasses import dataclass
 
-from ..design.model import Design, ElementSpec
+from ..design.model import Design, ElementSpec, StockSpec
 from ..design.purchase import Offer, PurchaseSettings
 from ..errors import DesignError, Finding
 from ..lengths.records import PieceCore
@@ -24,7 +24,7 @@ from ..lengths.stage import stock_summary
 from ..units import format_mm, format_money
 from .costing import piece_cost
 from .cutting import StockOption, pack, remnant_mm
-from .records import BuyLine, Cut, ElementEstimate, ItemLine, Order, StockPiece
+from .records import BuyLine, Cut, ElementEstimate, ItemLine, Order, StockPiece, UnofferedStock
 
 __all__ = ["EstimateResult", "estimate", "spares_for"]
 
@@ -49,78 +49,156 @@ def _cut_name(spec: ElementSpec, piece: PieceCore) -> str:
     return spec.name if not piece.label else f"{spec.name}, {piece.label}"
 
 
+@dataclass
+class _Group:
+    """The cuts of one stock and the offers for it."""
+
+    name: str  # "" for the design's [stock]; else its catalogue key or description
+    stock: StockSpec
+    mass_per_m: float
+    offers: list[Offer]
+    lengths: list[float]
+    labels: list[tuple[str, bool]]
+
+
+def _stock_name(design: Design, stock: StockSpec) -> str:
+    if stock == design.stock:
+        return ""
+    return stock.catalogue or stock.description
+
+
+def _groups(design: Design, elements: Sequence[tuple[ElementSpec, Sequence[PieceCore]]],
+            offers: Sequence[Offer], spares: dict[str, int]) -> list[_Group]:
+    """The cuts grouped by stock, in the order the stocks first appear (the design's
+    [stock] first); each group with the offers for it: an offer naming the stock's
+    catalogue key, or (for the design's [stock]) an offer naming none."""
+    groups: dict[StockSpec, _Group] = {}
+
+    def group(stock: StockSpec) -> _Group:
+        if stock not in groups:
+            mine = [o for o in offers
+                    if (o.stock is None and stock == design.stock)
+                    or (o.stock is not None and o.stock == stock.catalogue)]
+            groups[stock] = _Group(_stock_name(design, stock), stock,
+                                   stock_summary(stock).mass_per_m_kg, mine, [], [])
+        return groups[stock]
+
+    group(design.stock)
+    for spec, pieces_of in elements:
+        for n in range(spec.quantity + spares[spec.name]):
+            for piece in pieces_of:
+                g = group(piece.stock.spec)
+                g.lengths.append(piece.cut_length_mm)
+                g.labels.append((_cut_name(spec, piece), n >= spec.quantity))
+    return [g for g in groups.values() if g.lengths or g.stock == design.stock]
+
+
 def estimate(design: Design,
              elements: Sequence[tuple[ElementSpec, Sequence[PieceCore]]]) -> EstimateResult:
     """Weights, costs and the purchase plan for `elements`: each element's spec
-    with the pieces of stock it is made of."""
+    with the pieces of stock it is made of. Each stock's cuts are packed into the
+    offers for that stock (`[[purchase.offer]] stock = "..."`); the cuts of a stock
+    no offer is for are listed as not offered."""
     settings: PurchaseSettings = design.purchase or PurchaseSettings()
     kerf = design.shop.kerf_mm
-    mass_per_m = stock_summary(design.stock).mass_per_m_kg
     findings: list[Finding] = []
-    lengths: list[float] = []
-    labels: list[tuple[str, bool]] = []
-    spares = {}
-    for spec, pieces_of in elements:
-        spares[spec.name] = spares_for(spec.name, spec.quantity, settings)
-        for n in range(spec.quantity + spares[spec.name]):
-            for piece in pieces_of:
-                lengths.append(piece.cut_length_mm)
-                labels.append((_cut_name(spec, piece), n >= spec.quantity))
+    spares = {spec.name: spares_for(spec.name, spec.quantity, settings)
+              for spec, _ in elements}
     offers = settings.offers
-    costs = tuple(piece_cost(o.price, o.per, o.length_mm, mass_per_m) for o in offers)
+    groups = _groups(design, elements, offers, spares)
+    cost_of = {o.name: piece_cost(o.price, o.per, o.length_mm, g.mass_per_m)
+               for g in groups for o in g.offers}
+    costs = tuple(cost_of.get(o.name, piece_cost(o.price, o.per, o.length_mm,
+                                                  stock_summary(design.stock).mass_per_m_kg))
+                  for o in offers)
     pieces: list[StockPiece] = []
+    buy: list[BuyLine] = []
+    unoffered: list[UnofferedStock] = []
+    methods: list[str] = []
+    lb_pieces: int | None = None
+    lb_cost: float | None = None
+    proven: bool | None = None
+    group_cost: dict[str, float] = {}
+    stock_length = 0.0
+    stock_weight = 0.0
     if offers:
-        _check_fits(design, elements, offers)
-        packing = pack(lengths, kerf, [StockOption(o.usable_mm, c)
-                                       for o, c in zip(offers, costs)])
-        for n, (o, cut_ids) in enumerate(packing.bins, 1):
-            offer = offers[o]
+        _check_fits(design, elements, groups)
+    for g in groups:
+        if not g.offers:
+            if offers and g.lengths:
+                unoffered.append(UnofferedStock(g.name or g.stock.description, len(g.lengths),
+                                                sum(g.lengths)))
+                findings.append(Finding(
+                    "no-stock-offered", "info",
+                    f"no [[purchase.offer]] is for {g.name or g.stock.description}: its "
+                    f"{len(g.lengths)} cut(s) are not in the purchase plan or its cost; add an "
+                    f"offer with stock = \"{g.stock.catalogue or 'its catalogue key'}\""))
+            continue
+        g_costs = [cost_of[o.name] for o in g.offers]
+        packing = pack(g.lengths, kerf, [StockOption(o.usable_mm, c)
+                                         for o, c in zip(g.offers, g_costs)])
+        mine: list[StockPiece] = []
+        for o, cut_ids in packing.bins:
+            offer = g.offers[o]
             pos = offer.ends_mm
             cuts = []
             for i in cut_ids:
-                cuts.append(Cut(labels[i][0], lengths[i], pos, labels[i][1]))
-                pos += lengths[i] + kerf
-            cut_lengths = [lengths[i] for i in cut_ids]
+                cuts.append(Cut(g.labels[i][0], g.lengths[i], pos, g.labels[i][1]))
+                pos += g.lengths[i] + kerf
+            cut_lengths = [g.lengths[i] for i in cut_ids]
             used = sum(cut_lengths) + kerf * (len(cut_ids) - 1)
-            pieces.append(StockPiece(n, offer.name, offer.length_mm, offer.ends_mm, costs[o],
-                                     tuple(cuts), used,
-                                     remnant_mm(offer.usable_mm, cut_lengths, kerf)))
-        method = packing.method
+            mine.append(StockPiece(len(pieces) + len(mine) + 1, offer.name, offer.length_mm,
+                                   offer.ends_mm, g_costs[o], tuple(cuts), used,
+                                   remnant_mm(offer.usable_mm, cut_lengths, kerf), g.name))
+        pieces += mine
+        if packing.method not in methods:
+            methods.append(packing.method)
         if not packing.proven_optimal:
             findings.append(Finding(
                 "purchase-not-proven", "info",
-                f"the purchase plan costs {format_money(packing.cost, settings.currency)} against "
+                f"the purchase plan{' of ' + g.name if g.name else ''} costs "
+                f"{format_money(packing.cost, settings.currency)} against "
                 f"a lower bound of {format_money(packing.lower_bound_cost, settings.currency)}; "
                 "the search could not "
                 "prove it the cheapest, so a slightly cheaper mix of stock may exist"))
-        lb_pieces, lb_cost, proven = (packing.lower_bound_pieces, packing.lower_bound_cost,
-                                      packing.proven_optimal)
-    else:
-        # no finding: a design need not price its stock; the order says so
-        method, lb_pieces, lb_cost, proven = "no stock offered", None, None, None
-    buy = []
-    for offer, each in zip(offers, costs):
-        count = sum(1 for p in pieces if p.offer == offer.name)
-        if count:
-            buy.append(BuyLine(offer.name, offer.length_mm, offer.usable_mm, count, each,
-                               offer.price, offer.per, each * count,
-                               mass_per_m * offer.length_mm * count / 1000, offer.source))
+        lb_pieces = (lb_pieces or 0) + packing.lower_bound_pieces
+        lb_cost = (lb_cost or 0.0) + packing.lower_bound_cost
+        proven = (proven is not False) and packing.proven_optimal
+        for offer, each in zip(g.offers, g_costs):
+            count = sum(1 for p in mine if p.offer == offer.name)
+            if count:
+                buy.append(BuyLine(offer.name, offer.length_mm, offer.usable_mm, count, each,
+                                   offer.price, offer.per, each * count,
+                                   g.mass_per_m * offer.length_mm * count / 1000, offer.source,
+                                   g.name))
+        group_cost[g.name] = sum(p.cost or 0.0 for p in mine)
+        length = sum(p.length_mm for p in mine)
+        stock_length += length
+        stock_weight += g.mass_per_m * length / 1000
+    # no finding when nothing is offered: a design need not price its stock; the order says so
+    method = "; ".join(methods) if methods else "no stock offered"
     items = tuple(ItemLine(i.name, i.quantity, i.weight_kg, i.price, i.weight_kg * i.quantity,
                            i.price * i.quantity, i.source) for i in settings.items)
-    priced = bool(offers)
-    stock_cost = sum(b.cost for b in buy) if priced else None
-    stock_length = sum(p.length_mm for p in pieces)
-    consumed = {spec.name: (spec.quantity + spares[spec.name])
-                * sum(p.cut_length_mm + kerf for p in pieces_of)
-                for spec, pieces_of in elements}
-    total_consumed = sum(consumed.values())
+    stock_cost = sum(b.cost for b in buy) if offers else None
+    # each element's share of each stock's cost, by the length of that stock it consumes
+    consumed: dict[tuple[str, str], float] = {}
+    for spec, pieces_of in elements:
+        for piece in pieces_of:
+            key = (spec.name, _stock_name(design, piece.stock.spec))
+            consumed[key] = consumed.get(key, 0.0) + (
+                (spec.quantity + spares[spec.name]) * (piece.cut_length_mm + kerf))
+    by_stock: dict[str, float] = {}
+    for (_, name), v in consumed.items():
+        by_stock[name] = by_stock.get(name, 0.0) + v
     estimates = []
     built_kg = 0.0
     for spec, pieces_of in elements:
         batch_cost: float | None = None
         cost: float | None = None
-        if stock_cost is not None and total_consumed > 0:
-            batch_cost = stock_cost * consumed[spec.name] / total_consumed
+        if stock_cost is not None:
+            batch_cost = sum(group_cost.get(name, 0.0) * v / by_stock[name]
+                             for (el, name), v in consumed.items()
+                             if el == spec.name and by_stock[name] > 0)
             cost = batch_cost / spec.quantity
         mass = sum(p.mass_kg for p in pieces_of)
         built_kg += mass * spec.quantity
@@ -128,25 +206,30 @@ def estimate(design: Design,
                                          sum(p.cut_length_mm for p in pieces_of), mass,
                                          mass * spec.quantity, cost, batch_cost,
                                          settings.currency))
+    all_lengths = [x for g in groups for x in g.lengths]
     order = Order(
         currency=settings.currency, kerf_mm=kerf, pieces=tuple(pieces), buy=tuple(buy),
-        items=items, offers=offers, offer_costs=costs, cut_count=len(lengths),
-        cut_length_mm=sum(lengths), stock_length_mm=stock_length,
+        items=items, offers=offers, offer_costs=costs, cut_count=len(all_lengths),
+        cut_length_mm=sum(all_lengths), stock_length_mm=stock_length,
         lower_bound_pieces=lb_pieces, lower_bound_cost=lb_cost, proven_optimal=proven,
         method=method, elements_weight_kg=built_kg,
-        stock_weight_kg=mass_per_m * stock_length / 1000,
+        stock_weight_kg=stock_weight,
         items_weight_kg=sum(i.weight_kg for i in items),
-        stock_cost=stock_cost, items_cost=sum(i.cost for i in items) if items else None)
+        stock_cost=stock_cost, items_cost=sum(i.cost for i in items) if items else None,
+        unoffered=tuple(unoffered))
     return EstimateResult(tuple(estimates), order, tuple(findings))
 
 
 def _check_fits(design: Design, elements: Sequence[tuple[ElementSpec, Sequence[PieceCore]]],
-                offers: Sequence[Offer]) -> None:
-    """Bad input: a piece longer than the usable length of every stock offered."""
-    longest = max(offers, key=lambda o: o.usable_mm)
+                groups: Sequence[_Group]) -> None:
+    """Bad input: a piece longer than the usable length of every offer for its stock."""
     single = isinstance(design.raw.get("element"), dict)
+    longest_of = {g.stock: max(g.offers, key=lambda o: o.usable_mm) for g in groups if g.offers}
     for n, (spec, pieces_of) in enumerate(elements, 1):
         for piece in pieces_of:
+            longest = longest_of.get(piece.stock.spec)
+            if longest is None:
+                continue
             if piece.cut_length_mm > longest.usable_mm + 1e-6:
                 raise DesignError(
                     f"the cut length of {_cut_name(spec, piece)!r}, "

@@ -17,7 +17,7 @@ from ..stock.profiles import Profile
 __all__ = ["BendRow", "Mark", "MarkKind", "PieceCore", "StockSummary", "Vec"]
 
 Vec = tuple[float, float, float]
-MarkKind = Literal["centre", "bend-start", "bend-end", "gap", "end"]
+MarkKind = Literal["centre", "bend-start", "bend-end", "gap", "end", "fit"]  # fit: a fitting
 
 
 @dataclass(frozen=True)

@@ -14,13 +14,16 @@ from __future__ import annotations
 import dataclasses
 
 from ..design.model import Design, ElementSpec, StockSpec
-from ..errors import Finding
+from ..errors import DesignError, Finding
 from ..geometry.path import BendPath, BendSpan
 from ..geometry.shapes import SHAPES
-from ..geometry.shapes.base import ElementGeometry
+from ..geometry.shapes.base import ElementGeometry, PieceGeometry, PieceStock
+from ..stock.catalogue import get_stock_item
+from ..stock.materials import get_material
+from ..stock.profiles import Tube
 from .records import BendRow, Mark, PieceCore, StockSummary
 
-__all__ = ["element_geometry", "plan_pieces", "stock_summary"]
+__all__ = ["element_geometry", "plan_pieces", "stock_summary", "piece_stock", "piece_core"]
 
 
 def stock_summary(stock: StockSpec) -> StockSummary:
@@ -33,23 +36,85 @@ def element_geometry(design: Design, spec: ElementSpec) -> ElementGeometry:
     return SHAPES[spec.shape].element_geometry(spec.params, d)
 
 
+def piece_stock(element_stock: StockSpec, ref: PieceStock | None) -> StockSpec:
+    """The stock of one piece: its own (a catalogue item, or a tube's size in the
+    element's material), or the element's when it names none."""
+    if ref is None:
+        return element_stock
+    if ref.catalogue is not None:
+        item = get_stock_item(ref.catalogue, ref.field or "catalogue")
+        return StockSpec(get_material(item.material), item.profile, item.description,
+                         item.source, item.key, element_stock.k_factor,
+                         element_stock.k_factor_given)
+    if ref.od_mm is None or ref.wall_mm is None:
+        raise DesignError("a piece's stock needs a catalogue key, or od and wall",
+                          field=ref.field or "stock")
+    profile = Tube(ref.od_mm, ref.wall_mm)
+    return StockSpec(element_stock.material, profile, profile.describe(),
+                     "dimensions from the design", None, element_stock.k_factor,
+                     element_stock.k_factor_given)
+
+
 def plan_pieces(design: Design, spec: ElementSpec,
                 geometry: ElementGeometry) -> tuple[tuple[PieceCore, ...], list[Finding]]:
     """The core figures of every piece of one element, and the findings about
     its geometry (each naming the element)."""
     stock = design.stock_of(spec)
-    summary = stock_summary(stock)
     d = stock.profile.outer_diameter_mm
     shape = SHAPES[spec.shape]
     findings = [dataclasses.replace(f, element=spec.name) for f in shape.problems(spec.params, d)]
     trim = design.shop.trim_mm if spec.trim_mm is None else spec.trim_mm
     pieces = []
     for piece in geometry.pieces:
-        core = _piece(piece.label, piece.path, summary, trim)
+        own = piece_stock(stock, piece.stock)
+        core = piece_core(piece, stock_summary(own), trim)
         pieces.append(core)
         where = spec.name if not piece.label else f"{spec.name}, {piece.label}"
-        findings += _geometry_findings(where, piece.path, d, stock.k_factor_given)
+        findings += _geometry_findings(where, piece.path, own.profile.outer_diameter_mm,
+                                       own.k_factor_given)
+    findings += _fit_findings(spec.name, geometry, pieces)
     return tuple(pieces), findings
+
+
+def piece_core(piece: PieceGeometry, stock: StockSummary, trim: float) -> PieceCore:
+    """The core figures of one piece of stock (its own extra marks included)."""
+    core = _piece(piece.label, piece.path, stock, trim)
+    if not piece.marks:
+        return core
+    centre = core.developed_length_mm / 2
+    extra = [Mark(label, "fit", s - centre, trim + s) for label, s in piece.marks]
+    marks = tuple(sorted(core.marks + tuple(extra), key=lambda m: m.from_centre_mm))
+    return dataclasses.replace(core, marks=marks)
+
+
+def _fit_findings(name: str, geometry: ElementGeometry,
+                  pieces: list[PieceCore]) -> list[Finding]:
+    """Telescoping tubes: each must slide into the tube it is declared to sit in."""
+    out = []
+    for i, piece in enumerate(geometry.pieces):
+        host = piece.inside
+        if host is None or not 0 <= host < len(pieces):
+            continue
+        inner, outer = pieces[host].stock.profile, pieces[i].stock.profile
+        od = outer.outer_diameter_mm
+        bore = getattr(inner, "id_mm", None)
+        if bore is None:
+            out.append(Finding("tube-does-not-fit", "error",
+                               f"{pieces[i].label} slides into {pieces[host].label}, which is "
+                               "solid: the inner sections of a telescoping element must be tube",
+                               name))
+        elif od > bore + 1e-9:
+            out.append(Finding("tube-does-not-fit", "error",
+                               f"{pieces[i].label} ({od:.2f} mm outside) does not slide into "
+                               f"{pieces[host].label} ({bore:.2f} mm bore): choose the next "
+                               "size down", name))
+        elif bore - od > 1.0:
+            out.append(Finding("tube-loose-fit", "warning",
+                               f"{pieces[i].label} ({od:.2f} mm) is {bore - od:.2f} mm smaller "
+                               f"than the bore of {pieces[host].label} ({bore:.2f} mm): shim it "
+                               "or choose a closer size (tubes telescope in 1/8 in steps with "
+                               "0.058 in walls; common practice, no source)", name))
+    return out
 
 
 def _piece(label: str, path: BendPath, stock: StockSummary, trim: float) -> PieceCore:

@@ -16,6 +16,7 @@ import json
 import math
 from typing import Any
 
+from ..boom.records import BoomPlan, ElementMount
 from ..em.records import (
     ElementElectrical,
     PatternCut,
@@ -287,23 +288,82 @@ def element_dict(e: ElementPlan) -> dict[str, Any]:
         _estimate(e.estimate, d)
     if e.electrical is not None:
         _electrical(e.electrical, d)
+    if e.spec.part_of is not None:
+        d["part_of"] = e.spec.part_of
+    uniform = getattr(e.spec.params, "uniform", None)
+    if uniform is not None:
+        d["telescoping"] = {"uniform_length_mm": num(uniform.length_mm),
+                            "uniform_diameter_mm": num(uniform.diameter_mm),
+                            "tip_to_tip_mm": num(e.spec.params.length_mm),
+                            "taper_correction_mm": num(uniform.correction_mm),
+                            "frequency_hz": num(uniform.frequency_hz, 1),
+                            "basis": "stepped-element method (fabplan.antennas.taper)"}
+    if e.spec.match is not None:
+        m = e.spec.match
+        d["match"] = {"kind": m.kind, "part": m.part, "element": m.element,
+                      "length_mm": num(m.length_mm), "spacing_mm": num(m.spacing_mm),
+                      "direction": m.direction,
+                      "capacitance_f": num(m.capacitance_f, sig=6)}
+    if e.boom is not None:
+        _mount(e.boom, d)
     return d
+
+
+def _mount(m: ElementMount, d: dict[str, Any]) -> None:
+    """An element's place on the boom and the boom correction in its cut."""
+    d["position_mm"] = num(m.position_mm)
+    d["boom_correction_mm"] = num(m.correction_mm)
+    d["mount"] = {
+        "mounting": m.mounting, "x_mm": num(m.x_mm), "height_mm": num(m.height_mm),
+        "boom_correction_mm": num(m.correction_mm),
+        "published_correction_mm": num(m.published_mm),
+        "upper_bound_mm": num(m.upper_bound_mm), "fraction_of_boom": num(m.fraction_of_boom, 6),
+        "applied": m.applied, "basis": m.basis, "hole_mm": num(m.hole_mm),
+        "crossing_diameter_mm": num(m.crossing_mm),
+        "pieces": [{"label": p.label, "shape_cut_mm": num(p.shape_cut_mm),
+                    "added_mm": num(p.added_mm), "cut_length_mm": num(p.cut_length_mm)}
+                   for p in m.pieces]}
+
+
+def boom_dict(b: BoomPlan) -> dict[str, Any]:
+    """The boom: its stock, datum, mounting, holes (from the datum), hardware, balance."""
+    return {
+        "description": b.description, "section": b.section, "outside_mm": num(b.outside_mm),
+        "wall_mm": num(b.wall_mm), "length_mm": num(b.length_mm), "material": b.material,
+        "conductor": b.conductor, "mass_kg": num(b.mass_kg, 5), "quantity": b.quantity,
+        "datum": b.datum, "mounting": b.mounting, "modelled_as_conductor": b.modelled,
+        "correction_frequency_hz": num(b.frequency_hz, 1),
+        "circumference_mm": num(b.drilling.circumference_mm),
+        "holes": [{"label": h.label, "from_datum_mm": num(h.from_datum_mm),
+                   "diameter_mm": num(h.diameter_mm), "angle_deg": num(h.angle_deg, 3),
+                   "through": h.through, "purpose": h.purpose} for h in b.drilling.holes],
+        "elements": [{"element": m.element, "position_mm": num(m.position_mm),
+                      "mounting": m.mounting, "boom_correction_mm": num(m.correction_mm)}
+                     for m in b.mounts],
+        "bill": [{"item": x.item, "quantity": x.quantity, "size": x.size, "note": x.note}
+                 for x in b.bill],
+        "balance_from_datum_mm": num(b.balance_mm),
+        "notes": list(b.notes),
+    }
 
 
 def order_dict(o: Order) -> dict[str, Any]:
     return {
         "currency": None if o.currency is None else o.currency.label,
         "kerf_mm": num(o.kerf_mm),
-        "offers": [{"name": f.name, "length_mm": num(f.length_mm), "ends_mm": num(f.ends_mm),
+        "offers": [{"name": f.name, "stock": f.stock, "length_mm": num(f.length_mm),
+                    "ends_mm": num(f.ends_mm),
                     "usable_mm": num(f.usable_mm), "price": f.price, "per": f.per,
                     "piece_cost": num(c, 2), "source": f.source}
                    for f, c in zip(o.offers, o.offer_costs)],
-        "buy": [{"offer": b.offer, "length_mm": num(b.length_mm), "count": b.count,
+        "buy": [{"offer": b.offer, "stock": b.stock or None, "length_mm": num(b.length_mm),
+                 "count": b.count,
                  "piece_cost": num(b.piece_cost, 2), "cost": num(b.cost, 2),
                  "weight_kg": num(b.weight_kg, 5)} for b in o.buy],
         "pieces_to_buy": o.pieces_to_buy,
         "stock_pieces": [{
-            "index": p.index, "offer": p.offer, "length_mm": num(p.length_mm),
+            "index": p.index, "offer": p.offer, "stock": p.stock or None,
+            "length_mm": num(p.length_mm),
             "ends_mm": num(p.ends_mm), "cost": num(p.cost, 2),
             "cuts": [{"element": c.element, "length_mm": num(c.length_mm),
                       "start_mm": num(c.start_mm), "spare": c.spare} for c in p.cuts],
@@ -311,6 +371,8 @@ def order_dict(o: Order) -> dict[str, Any]:
             "utilisation": num(p.utilisation),
         } for p in o.pieces],
         "offcuts_mm": [num(p.remnant_mm) for p in o.pieces if p.remnant_mm > 0],
+        "not_offered": [{"stock": u.stock, "cuts": u.cuts, "length_mm": num(u.length_mm)}
+                        for u in o.unoffered],
         "cuts": o.cut_count,
         "cut_length_mm": num(o.cut_length_mm),
         "stock_length_mm": num(o.stock_length_mm),
@@ -361,6 +423,8 @@ def plan_to_dict(plan: Plan) -> dict[str, Any]:
         out["order"] = order_dict(plan.order)
     if plan.electrical is not None:
         out["electrical"] = _plan_electrical(plan.electrical)
+    if plan.boom is not None:
+        out["boom"] = boom_dict(plan.boom)
     if plan.drilling:
         out["drilling"] = [{
             "name": d.name, "section": d.section, "outside_mm": num(d.outside_mm),

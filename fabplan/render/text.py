@@ -10,6 +10,7 @@ import math
 from collections.abc import Callable, Sequence
 from typing import Any
 
+from ..boom.records import BoomPlan
 from ..em.records import BandFigures, ElementElectrical, PlanElectrical, StructureElectrical
 from ..errors import Finding
 from ..estimate.records import Cut, ElementEstimate, Order, StockPiece
@@ -21,6 +22,7 @@ from ..units import (
     format_angle,
     format_frequency,
     format_length,
+    format_mm,
     format_money,
     format_weight,
 )
@@ -143,6 +145,8 @@ def plan_to_text(plan: Plan) -> str:
             band = st[e.electrical.structure].band if e.electrical.structure < len(st) else None
             out.append(electrical_text(e.electrical, band))
             out.append("")
+    if plan.boom is not None:
+        out += boom_lines(plan.boom, L)
     if plan.order is not None:
         out.append(order_text(plan.order, unit, den))
         out.append("")
@@ -451,3 +455,31 @@ def plan_electrical_text(self: PlanElectrical, unit: LengthUnit, den: int) -> st
     lines += [""] if self.structures else []
     lines += [f"CAUTION: {c}" for c in self.cautions]
     return "\n".join(lines)
+
+
+def boom_lines(b: BoomPlan, L: Callable[[float], str]) -> list[str]:
+    """`fabplan plan`: the boom, each element on it, its holes and hardware."""
+    head = "Boom"
+    out = [head, "-" * len(head),
+           f"{b.description}, {L(b.length_mm)} long, {b.material} ({b.mass_kg * 1000:.0f} g); "
+           f"x {b.quantity}",
+           f"positions from the {b.datum} end (the datum); mounting {b.mounting}; "
+           + ("the boom is modelled as a conductor" if b.modelled else
+              "the boom's effect is the boom correction"), ""]
+    rows = [[m.element, L(m.position_mm), m.mounting, format_mm(m.correction_mm, 2),
+             L(sum(p.cut_length_mm for p in m.pieces)), m.applied] for m in b.mounts]
+    out.append(table(["element", "from datum", "mounting", "correction mm", "cut length",
+                      "how"], rows, "lrlrrl"))
+    out += ["", "Drilling (from the datum; angle round the boom, 0 on top)"]
+    rows = [[f"H{n}", h.label, L(h.from_datum_mm), f"{h.angle_deg:g}",
+             format_mm(h.diameter_mm, 1), "through" if h.through else "", h.purpose]
+            for n, h in enumerate(b.drilling.holes, 1)]
+    out.append(table(["hole", "for", "from datum", "angle deg", "diameter", "", "purpose"],
+                     rows, "llrrrll"))
+    out += ["", "Hardware"]
+    out.append(table(["item", "qty", "size"], [[x.item, str(x.quantity), x.size or "-"]
+                                               for x in b.bill], "lrl"))
+    if b.balance_mm is not None:
+        out.append(f"balances {L(b.balance_mm)} from the datum")
+    out.append("")
+    return out

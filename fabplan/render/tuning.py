@@ -6,11 +6,11 @@ from __future__ import annotations
 from ..design.electrical import ElectricalSettings
 from ..design.model import Design
 from ..em.records import UNCERTAINTY_FRAC
-from ..tuning import MeasuredResult, TuneResult
-from ..units import format_frequency, format_length, format_signed_length
+from ..tuning import BeamTuneResult, MeasuredResult, TuneResult
+from ..units import format_capacitance, format_frequency, format_length, format_signed_length
 from .text import table
 
-__all__ = ["tune_text", "measured_text"]
+__all__ = ["tune_text", "measured_text", "beam_tune_text"]
 
 
 def _len(mm: float, d: Design) -> str:
@@ -75,4 +75,39 @@ def measured_text(r: MeasuredResult, d: Design) -> list[str]:
                        rows, "lrrr"))
     lines += ["", f"Trust the {'model' if r.trust == 'model' else 'proportional rule'}: "
               f"{r.advice}"]
+    return lines
+
+
+def beam_tune_text(r: BeamTuneResult, d: Design) -> list[str]:
+    """`fabplan tune` on a beam: what changed, and the beam before and after."""
+    what = f" with its {r.match}" if r.match else ""
+    lines = [f"Tuning the beam at {format_frequency(r.target_hz)}: {r.element!r}{what} for "
+             "least SWR through the matching"
+             + ("" if r.goal is None else f"; the parasitic elements for {r.goal.describe()} "
+                f"(each within +-{100 * r.goal.within:g} %)"),
+             f"  start: {r.start}", ""]
+    rows = []
+    for c in r.changes:
+        if c.kind == "capacitance":
+            old = format_capacitance(c.old) if c.old > 0 else "solved by the check"
+            rows.append([c.element, c.key, old, format_capacitance(c.new), ""])
+        else:
+            rows.append([c.element, c.key, _len(c.old, d), _len(c.new, d),
+                         _change(c.new - c.old, d)])
+    lines.append(table(["element", "key", "before", "after", "change"], rows, "llrrr")
+                 if rows else "  nothing needed changing")
+    lines.append("")
+    head = ["", "R + jX at the terminals (ohm)", "SWR", "gain dBi (+x)", "front-to-back dB"]
+    fig = []
+    for name, f in (("before", r.before), ("after", r.after)):
+        fig.append([name, f"{f.z_ohm.real:.1f} {'+' if f.z_ohm.imag >= 0 else '-'} "
+                          f"j{abs(f.z_ohm.imag):.1f}", f"{f.swr:.2f}", f"{f.gain_dbi:.2f}",
+                    f"{f.front_to_back_db:.1f}"])
+    lines.append(table(head, fig, "lrrrr"))
+    if r.goal_met is False:
+        lines.append(f"  the goal's floor is not reached within +-{100 * r.goal.within:g} % "
+                     "(shown: the best found); allow more (--within) or change the spacings"
+                     if r.goal is not None else "")
+    u = 100 * UNCERTAINTY_FRAC
+    lines.append(f"  ({r.evaluations} solves of the model; each figure +-{u:.1f} % in frequency)")
     return lines

@@ -35,6 +35,7 @@ _B88 = "ASTM B88, table of water tube dimensions [M]"
 _EN = "EN 1057, table of preferred sizes [M]"
 _ALT = "common drawn aluminium tube sizes (0.058 in wall telescoping series) [P]"
 _B258 = "ASTM B258 (AWG diameter formula)"
+_ROD = "common aluminium round rod sizes (fractional inch) [P]"
 
 _ITEMS = [
     _tube("acr-1/4", "ACR copper tube 1/4 x 0.030 in", 0.250, 0.030, "cu-c12200-annealed", _B280),
@@ -65,6 +66,12 @@ _ITEMS = [
           _ALT),
     _tube("al-3/4x0.058", "aluminium drawn tube 3/4 x 0.058 in", 0.750, 0.058, "al-6063-t832",
           _ALT),
+    *[_tube(f"al-{name}x0.058", f"aluminium drawn tube {name} x 0.058 in", od, 0.058,
+            "al-6063-t832", _ALT)
+      for name, od in (("7/8", 0.875), ("1", 1.0), ("1-1/8", 1.125), ("1-1/4", 1.25))],
+    *[StockItem(f"al-rod-{name}", f"aluminium round rod {name} in", Round(d * IN), "al-6061-t6",
+                _ROD) for name, d in (("3/16", 0.1875), ("1/4", 0.25), ("5/16", 0.3125),
+                                      ("3/8", 0.375))],
     *[StockItem(f"awg-{n}", f"solid copper wire AWG {n}", Round(awg_diameter_mm(n)),
                 "cu-c11000-annealed", _B258) for n in range(4, 15)],
 ]

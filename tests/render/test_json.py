@@ -121,14 +121,32 @@ def _fits(kind: str, v) -> bool:
     }[base]
 
 
+# a telescoping element given by the uniform element it behaves as
+TELESCOPING = """
+[stock]
+catalogue = "al-5/8x0.058"
+[boom]
+square = { side = "30 mm" }
+material = "wood"
+length = "1 m"
+frequency = "50.15 MHz"
+[[element]]
+shape = "straight"
+feed_gap = "20 mm"
+sections = [{ catalogue = "al-3/4x0.058", length = "700 mm" }, { catalogue = "al-1/2x0.058" }]
+uniform = { length = "2800 mm", diameter = "15.875 mm" }
+"""
+
+
 @pytest.fixture(scope="module")
-def plans(example_plan, uncomment_template):
+def plans(example_plan, beam_plan, uncomment_template):
     """The example, every template as written and with its optional tables switched
     on (and with a bender where the template shows one), and strip stock."""
     from fabplan.design.read import parse_design
     from fabplan.plan import make_plan
 
-    out = [example_plan, make_plan(parse_design(STRIP)), make_plan(parse_design(LOADED))]
+    out = [example_plan, beam_plan, make_plan(parse_design(STRIP)),
+           make_plan(parse_design(LOADED)), make_plan(parse_design(TELESCOPING))]
     for shape in SHAPES:
         text = resources.files("fabplan").joinpath("templates", f"{shape}.toml").read_text()
         on = uncomment_template(text)
@@ -158,8 +176,7 @@ def test_every_key_is_documented_with_its_type(plans):
     wrong = sorted(p for p, values in seen.items()
                    if not all(_fits(doc[_documented(p, doc)][0], v) for v in values))
     assert wrong == [], f"values that do not have the documented type: {wrong}"
-    # the plans above reach every documented key but the drilling patterns (no stage
-    # makes them yet)
+    # the plans above reach every documented key
     reached = {_documented(p, doc) for p in seen}
     unseen = sorted(set(doc) - reached)
     assert all(p.startswith("drilling") for p in unseen), unseen

@@ -7,10 +7,21 @@ it here, and add its commented design file under `fabplan/templates/`.
 
 from __future__ import annotations
 
-from . import circle_loop, custom, delta_loop, folded_dipole, hairpin, helix, rect_loop, straight
+from . import (
+    circle_loop,
+    custom,
+    delta_loop,
+    folded_dipole,
+    hairpin,
+    helix,
+    rect_loop,
+    straight,
+    tip_coupled_pair,
+)
 from .base import ShapeSpec
 
 __all__ = ["SHAPES", "ShapeSpec"]
 
 SHAPES: dict[str, ShapeSpec] = {m.SPEC.name: m.SPEC for m in (
-    folded_dipole, hairpin, rect_loop, delta_loop, circle_loop, helix, custom, straight)}
+    folded_dipole, hairpin, rect_loop, delta_loop, circle_loop, helix, custom, straight,
+    tip_coupled_pair)}

@@ -27,8 +27,9 @@ from ...errors import DesignError, Finding
 from ...section import Section
 from ..path import BendPath
 
-__all__ = ["ShapeSpec", "ParallelEnds", "PieceGeometry", "End", "Gap", "ElementGeometry",
-           "Dimension", "TunedValue", "pick_one", "spacing_centre", "gap_and_offset",
+__all__ = ["ShapeSpec", "ParallelEnds", "PieceGeometry", "PieceStock", "End", "Gap",
+           "ElementGeometry", "Dimension", "TunedValue", "pick_one", "spacing_centre",
+           "gap_and_offset",
            "arc_angle_of_chord", "centre_to_centre"]
 
 # a design-file value the tuner writes back: ("length", mm) or ("number", value)
@@ -36,12 +37,38 @@ TunedValue = tuple[Literal["length", "number"], float]
 
 
 @dataclass(frozen=True)
+class PieceStock:
+    """A piece's own stock, when it is not the element's: a catalogue key, or a
+    round tube's outside diameter and wall (mm) in the element's material. The core
+    stage resolves it (the shapes cannot see the catalogue)."""
+
+    catalogue: str | None = None
+    od_mm: float | None = None
+    wall_mm: float | None = None
+    field: str = ""  # where the design gives it, for errors
+
+
+@dataclass(frozen=True)
 class PieceGeometry:
     """One piece of stock: its bend path in the element's frame (mm). `label`
-    names it on the sheet ("" for an element of one piece)."""
+    names it on the sheet ("" for an element of one piece).
+
+    `stock`: the piece's own stock (telescoping tubes), None for the element's.
+    `tips`: which of its ends ("A", "B") are the element's tips, where a length
+    correction (the boom's) is added. `marks`: extra pencil marks (label, mm along
+    the stock from end A), e.g. how far a tube slides into the next.
+    `inside`: the index of the piece this one slides into (telescoping tubes).
+    `conductor_of`: for a piece of the electrical model that runs through several
+    pieces of stock, (from arc length mm, index of the stock piece whose section the
+    conductor has from there); empty: the element's stock."""
 
     label: str
     path: BendPath
+    stock: PieceStock | None = None
+    tips: tuple[Literal["A", "B"], ...] = ()
+    marks: tuple[tuple[str, float], ...] = ()
+    inside: int | None = None
+    conductor_of: tuple[tuple[float, int], ...] = ()
 
 
 @dataclass(frozen=True)
@@ -90,11 +117,22 @@ class Dimension:
 @dataclass(frozen=True)
 class ElementGeometry:
     """The pieces of stock an element is made of, the gaps between their ends,
-    and the dimensions the user gave (for drawings)."""
+    and the dimensions the user gave (for drawings).
+
+    `model`: the conductors the electrical model sees, when they are not the pieces
+    of stock (telescoping tubes modelled as one stepped conductor per side; a whole
+    element fed at its centre through a gamma or T match; an element joined to a
+    boom modelled as a conductor); None: the pieces themselves."""
 
     pieces: tuple[PieceGeometry, ...]
     gaps: tuple[Gap, ...] = ()
     dimensions: tuple[Dimension, ...] = ()
+    model: ElementGeometry | None = None
+
+    @property
+    def modelled(self) -> ElementGeometry:
+        """What the electrical model sees: `model`, or the pieces and gaps."""
+        return self.model if self.model is not None else self
 
     @property
     def feed(self) -> Gap | None:

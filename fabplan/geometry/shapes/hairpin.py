@@ -2,7 +2,10 @@
 90-degree bends with a straight between (`end_style = "square"`).
 
 The stock's ends are the free ends of the legs; its centre is in the middle
-of the bend (or of the straight between the two bends).
+of the bend (or of the straight between the two bends). The bend is at x = 0 and
+the legs run back along -x; a hairpin made as a matching device
+(fabplan.design.match) has its frame at the legs' ends instead (`anchor = "ends"`,
+not a design key), so that a new leg length keeps its ends on the feed terminals.
 """
 
 from __future__ import annotations
@@ -27,6 +30,7 @@ class Params:
     spacing_mm: float
     end_style: Literal["round", "square"] = "round"
     bend_radius_mm: float | None = None
+    anchor: Literal["bend", "ends"] = "bend"  # where the frame's origin is (see above)
 
     def centre_spacing(self, d: float) -> float:
         return centre_to_centre(self.spacing_kind, self.spacing_mm, d)
@@ -55,8 +59,9 @@ def build(p: Params, d: float) -> BendPath:
         link = c - 2 * r
         middle = [Bend(r, 90.0)] + ([Straight(link)] if link > 1e-9 else []) + [Bend(r, 90.0)]
         straight_leg = p.leg_mm
+    x0 = 0.0 if p.anchor == "ends" else -straight_leg
     return BendPath((Straight(straight_leg), *middle, Straight(straight_leg)),
-                    origin=(-straight_leg, -c / 2, 0.0))
+                    origin=(x0, -c / 2, 0.0))
 
 
 def problems(p: Params, d: float) -> list[Finding]:

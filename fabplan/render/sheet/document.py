@@ -19,6 +19,7 @@ from ...errors import DesignError
 from ...plan import Plan
 from ..fullscale.papers import PT_PER_MM, SHEET_PAPERS, paper_size
 from . import core
+from .boom import boom
 from .context import Context, default_paper
 from .electrical import electrical
 from .estimate import order
@@ -50,6 +51,7 @@ def sheet_pdf(plan: Plan, paper: str | None = None,
     story += core.title(ctx)
     story += core.stock(ctx)
     story += core.cut_list(ctx)
+    story += boom(ctx)
     for e in plan.elements:
         story += core.element(ctx, e)
     story += order(ctx)
