@@ -13,8 +13,8 @@ from fabplan.design.read import load_design
 from fabplan.render.text import plan_to_text
 
 
-def test_build_writes_the_beam_and_its_drilling_template(run_cli, beam_example_path, tmp_path):
-    run_cli("build", beam_example_path, "-o", tmp_path / "out", check_exit=0)
+def test_build_writes_the_beam_and_its_drilling_template(cli, beam_example_path, tmp_path):
+    cli("build", beam_example_path, "-o", tmp_path / "out", check_exit=0)
     out = tmp_path / "out"
     for key in ("plan", "sheet", "template", "drilling", "sweep"):
         assert (out / BUILD_NAMES[key]).stat().st_size > 0, key
@@ -45,11 +45,11 @@ def test_build_writes_the_beam_and_its_drilling_template(run_cli, beam_example_p
         assert words in text, words
 
 
-def test_tune_writes_the_hairpin_back(run_cli, beam_example_path, tmp_path):
+def test_tune_writes_the_hairpin_back(cli, beam_example_path, tmp_path):
     src = tmp_path / "beam.toml"
     text = beam_example_path.read_text().replace('length = "54.9 mm"', 'length = "70 mm"')
     src.write_text(text)
-    proc = run_cli("tune", src, "-o", tmp_path / "tuned.toml", check_exit=0)
+    proc = cli("tune", src, "-o", tmp_path / "tuned.toml", check_exit=0)
     assert "match.length" in proc.stdout
     tuned = (tmp_path / "tuned.toml").read_text()
     # the comments survive, and the match comes back to the example's tuned legs

@@ -275,8 +275,8 @@ def test_the_build_sheet_shows_the_comparison_page(cli, tmp_path):
 
 
 # -- the single-frequency entry (fabplan issue 14) ----
-def test_a_measured_frequency_without_its_kind_is_refused(run_cli, example_path):
-    proc = run_cli("tune", example_path, "--measured", "432.5 MHz")
+def test_a_measured_frequency_without_its_kind_is_refused(cli, example_path):
+    proc = cli("tune", example_path, "--measured", "432.5 MHz")
     assert proc.returncode == 2
     lines = proc.stderr.strip().splitlines()
     assert len(lines) == 1 and "--kind" in lines[0] and "never guessed" in lines[0]

@@ -183,9 +183,9 @@ DIMENSION_KEYS = ("side", "inside_length", "overall_length", "spacing", "centre_
                   "coil_length", "base", "legs", "tail", "length")
 
 
-def _template_plan(run_cli, tmp_path, shape):
+def _template_plan(cli, tmp_path, shape):
     path = tmp_path / f"{shape}.toml"
-    run_cli("new", shape, "-o", path, check_exit=0)
+    cli("new", shape, "-o", path, check_exit=0)
     return path, make_plan(load_design(path))
 
 
@@ -286,13 +286,13 @@ def _user_dimensions(path, units, den):
 
 
 @pytest.mark.parametrize("shape", ["example", *SHAPES])
-def test_drawing_labels_clear_of_lines_and_each_other(run_cli, tmp_path, shape):
+def test_drawing_labels_clear_of_lines_and_each_other(cli, tmp_path, shape):
     """Issue 15: dimension text was printed across the conductor and over marks; no
     drawing showed the dimensions the user typed."""
     if shape == "example":
         path, plan = EXAMPLE, make_plan(load_design(EXAMPLE))
     else:
-        path, plan = _template_plan(run_cli, tmp_path, shape)
+        path, plan = _template_plan(cli, tmp_path, shape)
     shop = plan.design.shop
     with pdfplumber.open(io.BytesIO(sheet_pdf(plan))) as pdf:
         areas = _drawing_areas(pdf)
@@ -340,9 +340,9 @@ def _circle_fit(pts):
     return (cx, cy), r, float(resid.max())
 
 
-def test_circle_loop_drawn_round_and_its_angle_rounded(run_cli, tmp_path):
+def test_circle_loop_drawn_round_and_its_angle_rounded(cli, tmp_path):
     """Issue 15: the circle loop was a visible polygon labelled "355.415 deg"."""
-    _, plan = _template_plan(run_cli, tmp_path, "circle-loop")
+    _, plan = _template_plan(cli, tmp_path, "circle-loop")
     b = plan.elements[0].piece.bends[0]
     full = f"{b.angle_deg:.3f}"
     short = f"{b.angle_deg:.1f}"
@@ -369,9 +369,9 @@ def _flat_pdf(pdf):
     return re.sub(r"\s+", " ", " ".join(p.extract_text() for p in pdf.pages))
 
 
-def test_helix_side_view_to_scale_with_a_tick_each_turn(run_cli, tmp_path):
+def test_helix_side_view_to_scale_with_a_tick_each_turn(cli, tmp_path):
     """Issue 15: the helix was drawn almost end-on as overlapping circles."""
-    _, plan = _template_plan(run_cli, tmp_path, "helix")
+    _, plan = _template_plan(cli, tmp_path, "helix")
     p = plan.design.elements[0].params
     with pdfplumber.open(io.BytesIO(sheet_pdf(plan))) as pdf:
         (page, top, bottom), = _drawing_areas(pdf)
@@ -396,12 +396,12 @@ def test_helix_side_view_to_scale_with_a_tick_each_turn(run_cli, tmp_path):
         assert words in text
 
 
-def test_helix_steps_say_to_follow_the_turns(run_cli, tmp_path):
+def test_helix_steps_say_to_follow_the_turns(cli, tmp_path):
     """Issue 15: the steps said "bend to 3260.8 deg while held" beside a mandrel
     guide showing turns; now they say to wind turns on the mandrel by the guide."""
     from fabplan.units import format_angle, format_length
 
-    _, plan = _template_plan(run_cli, tmp_path, "helix")
+    _, plan = _template_plan(cli, tmp_path, "helix")
     piece = plan.elements[0].piece
     bf = piece.forming.bends[0]
     row = piece.bends[0]
@@ -435,9 +435,9 @@ def _which(row: dict[str, str]) -> list[tuple[int, int]]:
                                                     row["which way"])]
 
 
-def test_steps_refer_only_to_bends_already_made(run_cli, tmp_path):
+def test_steps_refer_only_to_bends_already_made(cli, tmp_path):
     """Issue 15: step 1 (bend 2) said "same way as bend 1" while bend 1 was step 3."""
-    _, plan = _template_plan(run_cli, tmp_path, "rect-loop")
+    _, plan = _template_plan(cli, tmp_path, "rect-loop")
     order = plan.elements[0].piece.forming.bend_order
     assert list(order) != sorted(order)  # the loop is bent from its middle out
     rows = _steps_rows(sheet_pdf(plan))
@@ -522,7 +522,7 @@ def test_every_caption_and_cut_in_the_shops_unit_first(write_design, units):
         assert row[4] == format_length(cut.start_mm, units, den)
 
 
-def test_default_paper_follows_the_shops_units(write_design, paper_pt, run_cli, tmp_path):
+def test_default_paper_follows_the_shops_units(write_design, paper_pt, cli, tmp_path):
     """Issue 15: the default paper was A4 even for a shop in inches. Letter and A4:
     ANSI/ASME Y14.1 and ISO 216 (the sizes in conftest)."""
     inch = make_plan(load_design(write_design(_example_text("in"), "in.toml")))
@@ -536,10 +536,10 @@ def test_default_paper_follows_the_shops_units(write_design, paper_pt, run_cli, 
         assert f"the default for a shop in {shop}" in _flat(data)
     assert "as chosen (--paper)" in _flat(sheet_pdf(inch, "a4"))
     out = tmp_path / "s.pdf"
-    run_cli("sheet", write_design(_example_text("in"), "cli.toml"), "-o", out, check_exit=0)
+    cli("sheet", write_design(_example_text("in"), "cli.toml"), "-o", out, check_exit=0)
     with pdfplumber.open(out) as pdf:
         assert (pdf.pages[0].width, pdf.pages[0].height) == pytest.approx(paper_pt["letter"])
-    helptext = re.sub(r"\s+", " ", run_cli("sheet", "--help", check_exit=0).stdout)
+    helptext = re.sub(r"\s+", " ", cli("sheet", "--help", check_exit=0).stdout)
     assert "letter for a shop in inches, a4 for millimetres" in helptext
 
 
