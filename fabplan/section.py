@@ -106,7 +106,7 @@ class Collector:
             elif self._own:
                 self._own[-1] += 1
             return None
-        except (ArithmeticError, TypeError, ValueError):
+        except (ArithmeticError, LookupError, TypeError, ValueError):
             own = self._own.pop()
             if own == 0:
                 raise

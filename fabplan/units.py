@@ -2,8 +2,11 @@
 
 Inside, lengths are millimetres, masses kilograms, frequencies hertz, power
 watts. A length in a design file is a string with its unit: "35 1/4 in",
-"35.25in", "2 ft 11 1/4 in", "2'-11 1/4\"", "1/4\"", "894.6 mm", "89.46 cm",
-"0.8946 m". A bare number is an error, never a guess.
+"35.25in", "10-3/4 in", "2 ft 11 1/4 in", "2'-11 1/4\"", "2′ 11-1/4″", "1/4\"",
+"894.6 mm", "89.46 cm", "0.8946 m". A bare number is an error, never a guess;
+so is a unit given twice or after a smaller one ("10 in 3 in", "3 in 2 ft").
+Every length, frequency, mass and power is bounded (MAX_LENGTH_MM and the
+other constants below, each with its reason).
 
 This is the one module that formats numbers for people: every renderer (text,
 tables, the build sheet, drawings) and every finding message takes its

@@ -49,3 +49,64 @@ def test_named_adds_the_file_where_it_is_missing_but_not_to_options():
     assert lines[1] == "--paper = 'a7': option rule"
     assert lines[2].startswith("other.toml: x: ")
     assert errors.with_source("d.toml").lines[2].startswith("d.toml: x: ")
+
+
+# -- on the command line -------------------------------------------------------------
+TWO_TABLES = """
+[stock]
+diameter = "4 mm"
+material = "cu-c11000-annealed"
+[shop]
+fraction = 10
+[[element]]
+name = "a\\u0007"
+shape = "hairpin"
+leg = "100 furlongs"
+spacing = "20 mm"
+"""
+
+
+def test_the_command_line_prints_every_error_in_the_file(tmp_path):
+    from click.testing import CliRunner
+
+    from fabplan.cli import main
+
+    path = tmp_path / "two.toml"
+    path.write_text(TWO_TABLES, encoding="utf-8")
+    result = CliRunner().invoke(main, ["check", str(path)])
+    assert result.exit_code == 2
+    lines = result.stderr.splitlines()
+    assert [line.split(": ")[3].split(" ")[0] for line in lines] == [
+        "shop.fraction", "element[1].name", "element[1].leg"]
+    assert all(line.startswith(f"fabplan: error: {path}: ") for line in lines)
+
+
+CALIBRATION = """
+[stock]
+diameter = "4 mm"
+material = "cu-c11000-annealed"
+[forming.calibration]
+former_radius = "20 mm"
+angle_held = 95
+angle_released = 94.9999999999999
+[[element]]
+shape = "hairpin"
+leg = "100 mm"
+spacing = "20 mm"
+"""
+
+
+def test_an_error_found_while_planning_names_the_file(tmp_path):
+    """The test bend is checked against the springback model in the forming stage,
+    after the file was read: the line names the file all the same."""
+    from click.testing import CliRunner
+
+    from fabplan.cli import main
+
+    path = tmp_path / "cal.toml"
+    path.write_text(CALIBRATION, encoding="utf-8")
+    result = CliRunner().invoke(main, ["plan", str(path)])
+    assert result.exit_code == 2
+    assert result.stderr.startswith(
+        f"fabplan: error: {path}: forming.calibration.angle_released = 94.9999999999999: ")
+    assert len(result.stderr.splitlines()) == 1

@@ -164,3 +164,14 @@ def test_frequency_outside_the_stated_range(text):
 def test_frequency_range_ends_are_allowed():
     assert parse_frequency("1 kHz", "f") == 1e3
     assert parse_frequency("100 GHz", "f") == 100e9
+
+
+def test_mass_and_power_are_bounded():
+    from fabplan.units import parse_mass, parse_power
+
+    assert parse_mass("1000 kg", "purchase.item[1].weight") == 1000.0
+    with pytest.raises(DesignError, match="at most 1000 kg"):
+        parse_mass("1e300 kg", "purchase.item[1].weight")
+    assert parse_power("1.5 kW", "electrical.power") == 1500.0
+    with pytest.raises(DesignError, match="at most 1 MW"):
+        parse_power("1e30 kW", "electrical.power")

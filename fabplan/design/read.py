@@ -6,6 +6,12 @@ optional tables of the later stages, each read by its own module in this
 package: `[forming]` (forming.py), `[purchase]` (purchase.py), `[jig]`
 (jig.py) and `[electrical]` (electrical.py). Everything comes out in
 millimetres.
+
+Every error in the file is reported at once: the tables share a
+`fabplan.section.Collector`, each table (each element, each offer) is read on
+its own, and one FabplanError carries a line per error. Every size a user
+controls is bounded before any stage works on it (the bounds and their reasons
+are in fabplan.design.model, fabplan.units and the readers).
 """
 
 from __future__ import annotations
