@@ -14,21 +14,23 @@ from dataclasses import dataclass
 from typing import Literal
 
 __all__ = ["FabplanError", "DesignError", "Finding", "Severity", "SEVERITIES", "did_you_mean",
-           "shown_value", "SHOWN_CHARS", "MAX_LINES"]
+           "shown_value", "SHOWN_CHARS", "FULL_CHARS", "MAX_LINES"]
 
 Severity = Literal["info", "warning", "error"]
 SEVERITIES: tuple[Severity, ...] = ("info", "warning", "error")
 
 
-SHOWN_CHARS = 60  # a value longer than this is shortened in an error line
+FULL_CHARS = 300  # a value (or field) longer than this is shortened in an error line
+SHOWN_CHARS = 80  # ... to its first SHOWN_CHARS characters and its length
 MAX_LINES = 50  # error lines one FabplanError carries (the rest are counted)
 
 
 def shown_value(value: object) -> str:
     """A value as an error line shows it: its repr (control characters escaped),
-    shortened to its first SHOWN_CHARS characters and its length when longer."""
+    shortened to its first SHOWN_CHARS characters and its length when longer than
+    FULL_CHARS (a path is shown whole; a 200 KB value is not)."""
     text = repr(value)
-    if len(text) <= SHOWN_CHARS + 20:
+    if len(text) <= FULL_CHARS:
         return text
     size = len(value) if isinstance(value, (str, bytes, list, dict, tuple)) else len(text)
     unit = "items" if isinstance(value, (list, dict, tuple)) else "characters"
@@ -58,7 +60,7 @@ class FabplanError(Exception):
         if self.source:
             where.append(str(self.source))
         if self.field:
-            where.append(self.field if len(self.field) <= SHOWN_CHARS + 20
+            where.append(self.field if len(self.field) <= FULL_CHARS
                          else f"{self.field[:SHOWN_CHARS]}... ({len(self.field)} characters)")
         head = ": ".join(where)
         shown = "" if self.value is None else f" = {shown_value(self.value)}"

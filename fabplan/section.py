@@ -32,8 +32,8 @@ __all__ = ["Section", "MISSING", "Collector", "key_text", "MAX_TEXT_CHARS", "MAX
 
 T = TypeVar("T")
 
-MAX_NAME_CHARS = 80  # a name (project, element, offer, item): one line of a table or sheet
-MAX_TEXT_CHARS = 500  # free text (notes, sources) and any other text value
+MAX_NAME_CHARS = 200  # a name (project, element, offer, item): the sheet wraps or shortens it
+MAX_TEXT_CHARS = 1000  # free text (notes, sources) and any other text value
 MAX_UNKNOWN_KEYS = 10  # unknown keys named one by one in a table (more: counted)
 MAX_TABLES = 1000  # entries in one array of tables ([[element]], [[purchase.offer]], bends)
 _BARE_KEY = re.compile(r"[A-Za-z0-9_-]+")

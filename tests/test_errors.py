@@ -2,7 +2,14 @@
 
 from __future__ import annotations
 
-from fabplan.errors import MAX_LINES, SHOWN_CHARS, DesignError, FabplanError, shown_value
+from fabplan.errors import (
+    FULL_CHARS,
+    MAX_LINES,
+    SHOWN_CHARS,
+    DesignError,
+    FabplanError,
+    shown_value,
+)
 
 
 def test_one_error_is_one_line_with_file_field_value_rule():
@@ -18,8 +25,10 @@ def test_a_long_value_is_shortened_with_its_length():
     assert len(line) < 200
     assert f"... ({len(value)} characters)" in line
     assert "'" + "x" * (SHOWN_CHARS - 1) in line
-    # a short value is shown whole, control characters escaped (repr)
+    # a short value (a path, say) is shown whole, control characters escaped (repr)
     assert shown_value("a\x07b") == "'a\\x07b'"
+    path = "/" + "d" * (FULL_CHARS - 3)
+    assert shown_value(path) == repr(path)
 
 
 def test_combined_errors_keep_the_first_as_str_and_every_line():

@@ -223,11 +223,11 @@ def test_control_characters_in_names_and_text_are_refused(where, text):
 
 
 def test_names_and_text_are_bounded():
-    err = _error(design() + f'[project]\nname = "{"n" * 81}"\nnotes = "{"t" * 501}"\n')
+    err = _error(design() + f'[project]\nname = "{"n" * 201}"\nnotes = "{"t" * 1001}"\n')
     assert [e.field for e in err.errors] == ["project.name", "project.notes"]
-    assert "a name is at most 80 characters" in err.lines[0]
-    assert "a text is at most 500 characters" in err.lines[1]
-    assert "(81 characters)" in err.lines[0]
+    assert "a name is at most 200 characters" in err.lines[0]
+    assert "a text is at most 1000 characters" in err.lines[1]
+    assert "(1001 characters)" in err.lines[1]
 
 
 def test_every_error_in_the_file_at_once():
