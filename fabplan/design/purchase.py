@@ -90,7 +90,7 @@ class PurchaseSettings:
 
 
 # bounds (see fabplan.design.model for the others)
-MAX_OFFERS = 20  # stock offers compared by the purchase plan
+MAX_OFFERS = 50  # stock offers (of every stock) compared by the purchase plan
 MAX_ITEMS = 1000  # extra parts bought with the stock
 MAX_SPARES = 10_000  # spare pieces of one element
 MAX_ITEM_QUANTITY = 1_000_000  # of one extra part
