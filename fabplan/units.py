@@ -2,8 +2,11 @@
 
 Inside, lengths are millimetres, masses kilograms, frequencies hertz, power
 watts. A length in a design file is a string with its unit: "35 1/4 in",
-"35.25in", "2 ft 11 1/4 in", "2'-11 1/4\"", "1/4\"", "894.6 mm", "89.46 cm",
-"0.8946 m". A bare number is an error, never a guess.
+"35.25in", "10-3/4 in", "2 ft 11 1/4 in", "2'-11 1/4\"", "2′ 11-1/4″", "1/4\"",
+"894.6 mm", "89.46 cm", "0.8946 m". A bare number is an error, never a guess;
+so is a unit given twice or after a smaller one ("10 in 3 in", "3 in 2 ft").
+Every length, frequency, mass and power is bounded (MAX_LENGTH_MM and the
+other constants below, each with its reason).
 
 This is the one module that formats numbers for people: every renderer (text,
 tables, the build sheet, drawings) and every finding message takes its
@@ -22,7 +25,8 @@ from .errors import DesignError
 
 __all__ = [
     "MM", "CM", "M", "IN", "FT", "LB_KG", "OZ_KG", "LengthUnit", "LENGTH_UNITS", "FRACTIONS",
-    "Currency", "CURRENCY_SYMBOLS",
+    "Currency", "CURRENCY_SYMBOLS", "MAX_LENGTH_MM", "MIN_LENGTH_MM", "MAX_LENGTH_CHARS",
+    "MIN_FREQUENCY_HZ", "MAX_FREQUENCY_HZ", "MAX_POWER_W", "MAX_MASS_KG", "format_limit",
     "parse_length", "parse_frequency", "parse_angle", "parse_mass", "parse_power",
     "parse_currency", "format_inches", "format_mm", "format_length", "format_signed_length",
     "format_frequency", "format_money", "format_weight", "format_number", "format_angle",
@@ -49,32 +53,66 @@ _FACTORS = {
     "in": IN, "inch": IN, "inches": IN, '"': IN, "''": IN,
     "ft": FT, "foot": FT, "feet": FT, "'": FT,
 }
-# one number: a decimal, a whole number and a fraction, or a fraction
+_METRIC = {MM, CM, M}
+
+# -- bounds on what a design may say (checked before any work starts) ----------------
+# A hand-built antenna element: no one dimension over 100 m (an 80 m-band full-wave
+# loop has sides of about 21 m; a 160 m-band half-wave dipole is about 80 m long),
+# and nothing finer than 0.01 mm (finer than a micrometer reads in a shop).
+MAX_LENGTH_MM = 100_000.0
+MIN_LENGTH_MM = 0.01
+MAX_LENGTH_CHARS = 100  # a length as typed ("2 ft 11 1/4 in" is 14 characters)
+# Frequencies an antenna element bent by hand is made for: 1 kHz (far below any
+# radio band) to 100 GHz (wavelength 3 mm, about the size of the stock itself).
+MIN_FREQUENCY_HZ = 1e3
+MAX_FREQUENCY_HZ = 100e9
+MAX_POWER_W = 1e6  # 1 MW: far above any amateur or broadcast transmitter
+MAX_MASS_KG = 1000.0  # one bought part: 1 t
+
+# typographic marks people paste from word processors, and spaces that are not spaces
+_MARKS = str.maketrans({"\u2033": '"', "\u201d": '"', "\u201c": '"', "\u2032": "'",
+                        "\u2019": "'", "\u2018": "'", "\u00a0": " ", "\u2009": " ",
+                        "\u202f": " "})
+# one number: a decimal, a whole number and a fraction (a space or a dash between),
+# or a fraction
 _NUM = r"(?:\d+(?:\.\d*)?|\.\d+)(?:[eE][-+]?\d+)?"
-_QTY = rf"(?P<num>{_NUM}(?:\s+\d+/\d+)?|\d+/\d+)"
-_TERM = re.compile(rf"\s*{_QTY}\s*(?P<unit>[a-zA-Z]+|''|\"|')\s*-?")
+_QTY = rf"(?:(?P<whole>\d+)(?:\s+|\s*-\s*)(?P<frac>\d+/\d+)|(?P<only>\d+/\d+)|(?P<dec>{_NUM}))"
+_TERM = re.compile(rf"\s*{_QTY}\s*(?P<unit>[a-zA-Z]+|''|\"|')\s*(?:-\s*)?")
+_LENGTH_EXAMPLES = '"35 1/4 in", "10-3/4 in", "2 ft 11 1/4 in" or "894.6 mm"'
 
 
-def _number(text: str) -> float:
-    parts = text.split()
-    total = 0.0
-    for part in parts:
-        if "/" in part:
-            num, den = part.split("/")
-            if int(den) == 0:
-                raise ValueError("zero denominator")
-            total += int(num) / int(den)
-        else:
-            total += float(part)
-    return total
+def _fraction(text: str) -> float:
+    num, den = text.split("/")
+    if int(den) == 0:
+        raise ValueError("zero denominator")
+    return int(num) / int(den)
+
+
+def _quantity(m: re.Match[str]) -> float:
+    if m.group("whole") is not None:
+        return int(m.group("whole")) + _fraction(m.group("frac"))
+    if m.group("only") is not None:
+        return _fraction(m.group("only"))
+    return float(m.group("dec"))
+
+
+def _unit_name(factor: float) -> str:
+    return {MM: "mm", CM: "cm", M: "m", IN: "in", FT: "ft"}[factor]
 
 
 def parse_length(text: object, field: str, *, allow_zero: bool = False,
-                 allow_negative: bool = False) -> float:
+                 allow_negative: bool = False, max_mm: float = MAX_LENGTH_MM,
+                 bound: str = "") -> float:
     """Parse a length with its unit and return millimetres.
 
-    `field` names the design key for the error message. Zero and negative
-    lengths are errors unless allowed.
+    Accepts what the trade writes: "35 1/4 in", "10-3/4 in", "10 3/4\"",
+    "2 ft 11-1/4 in", "2'-11 1/4\"", typographic marks (″ ′ and curly quotes),
+    "894.6 mm", "0.8946 m". Several terms give each unit once, the larger first,
+    never metric and inch units together. `field` names the design key for the
+    error message. Zero and negative lengths are errors unless allowed; a
+    non-zero length must lie between MIN_LENGTH_MM and `max_mm` (mm); `bound`
+    says why `max_mm` (by default: fabplan's bound on one dimension of a
+    hand-built antenna).
     """
     if isinstance(text, bool) or not isinstance(text, str):
         if isinstance(text, (int, float)):
@@ -82,16 +120,19 @@ def parse_length(text: object, field: str, *, allow_zero: bool = False,
                               'e.g. "35 1/4 in" or "894.6 mm"', field=field, value=text)
         raise DesignError("expected a length with a unit, e.g. \"35 1/4 in\" or \"894.6 mm\"",
                           field=field, value=text)
-    raw = text.strip()
+    if len(text) > MAX_LENGTH_CHARS:
+        raise DesignError(f"a length is at most {MAX_LENGTH_CHARS} characters, e.g. "
+                          f"{_LENGTH_EXAMPLES}", field=field, value=text)
+    raw = text.translate(_MARKS).strip()
     sign = 1.0
     if raw.startswith("-"):
         sign = -1.0
         raw = raw[1:].lstrip()
-    if raw.lower() in {"nan", "inf", "infinity"} or re.search(r"nan|inf", raw.lower()):
+    if re.search(r"nan|inf", raw.lower()):
         raise DesignError("a length must be a finite number with a unit", field=field, value=text)
     pos = 0
     total = 0.0
-    seen_any = False
+    units: list[float] = []
     while pos < len(raw):
         m = _TERM.match(raw, pos)
         if not m or m.end() == pos:
@@ -101,19 +142,26 @@ def parse_length(text: object, field: str, *, allow_zero: bool = False,
         if factor is None:
             raise DesignError(f"unknown unit {unit!r}: use in, ft, mm, cm or m",
                               field=field, value=text)
+        if units and factor >= units[-1]:
+            again = "repeats" if factor == units[-1] else "comes after a smaller unit"
+            raise DesignError(f"the unit {_unit_name(factor)!r} {again}: give each unit once, "
+                              'the larger first, e.g. "2 ft 11 1/4 in"', field=field, value=text)
+        if units and (factor in _METRIC) != (units[-1] in _METRIC):
+            raise DesignError('do not mix metric and inch units in one length: write e.g. '
+                              '"2 ft 11 1/4 in" or "895.4 mm"', field=field, value=text)
         try:
-            total += _number(m.group("num")) * factor
-        except (ValueError, ZeroDivisionError):
+            total += _quantity(m) * factor
+        except (ValueError, ZeroDivisionError, OverflowError):
             raise DesignError("not a number", field=field, value=text) from None
-        seen_any = True
+        units.append(factor)
         pos = m.end()
     rest = raw[pos:].strip()
-    if not seen_any or rest:
-        if re.fullmatch(rf"{_NUM}(\s+\d+/\d+)?|\d+/\d+", raw):
+    if not units or rest:
+        if re.fullmatch(rf"{_NUM}(\s*-?\s*\d+/\d+)?|\d+/\d+", raw):
             raise DesignError('a bare number has no unit: add one, e.g. "35 1/4 in" or "894.6 mm"',
                               field=field, value=text)
-        raise DesignError('not a length: write a number with its unit, e.g. "35 1/4 in", '
-                          '"2 ft 11 1/4 in" or "894.6 mm"', field=field, value=text)
+        raise DesignError(f"not a length: write a number with its unit, e.g. {_LENGTH_EXAMPLES}",
+                          field=field, value=text)
     value = sign * total
     if not math.isfinite(value):
         raise DesignError("a length must be finite", field=field, value=text)
@@ -121,15 +169,31 @@ def parse_length(text: object, field: str, *, allow_zero: bool = False,
         raise DesignError("must not be negative", field=field, value=text)
     if value == 0 and not allow_zero:
         raise DesignError("must be greater than zero", field=field, value=text)
+    if abs(value) > max_mm:
+        why = bound or "fabplan's bound on one dimension of a hand-built antenna"
+        raise DesignError(f"must be at most {format_limit(max_mm)} ({why})", field=field,
+                          value=text)
+    if 0 < abs(value) < MIN_LENGTH_MM:
+        raise DesignError(f"a length other than zero must be at least {MIN_LENGTH_MM:g} mm "
+                          "(finer than a shop can measure)", field=field, value=text)
     return value
+
+
+def format_limit(mm: float) -> str:
+    """A bound on a length for an error message: "100 m", "500 mm", "0.5 mm"."""
+    if mm >= 1000 and mm % 1000 == 0:
+        return f"{mm / 1000:g} m"
+    return f"{mm:g} mm"
 
 
 _FREQ = {"hz": 1.0, "khz": 1e3, "mhz": 1e6, "ghz": 1e9}
 
 
-def parse_frequency(text: object, field: str) -> float:
-    """Parse "146 MHz", "7.1 MHz", "433.92MHz" into hertz (positive, finite)."""
-    if not isinstance(text, str):
+def parse_frequency(text: object, field: str, *, low_hz: float = MIN_FREQUENCY_HZ,
+                    high_hz: float = MAX_FREQUENCY_HZ) -> float:
+    """Parse "146 MHz", "7.1 MHz", "433.92MHz" into hertz, from `low_hz` to
+    `high_hz` (by default 1 kHz to 100 GHz)."""
+    if not isinstance(text, str) or len(text) > MAX_LENGTH_CHARS:
         raise DesignError('expected a frequency with its unit, e.g. "146 MHz"', field=field,
                           value=text)
     m = re.fullmatch(rf"\s*({_NUM})\s*([a-zA-Z]+)\s*", text)
@@ -143,7 +207,19 @@ def parse_frequency(text: object, field: str) -> float:
     value = float(m.group(1)) * factor
     if not math.isfinite(value) or value <= 0:
         raise DesignError("must be a positive frequency", field=field, value=text)
+    if not low_hz <= value <= high_hz:
+        raise DesignError(f"must lie between {_hz_text(low_hz)} and {_hz_text(high_hz)} (the "
+                          "frequencies fabplan plans a hand-built element for)", field=field,
+                          value=text)
     return value
+
+
+def _hz_text(hz: float) -> str:
+    """A frequency bound in the largest unit it is a whole number of: "1 kHz", "100 GHz"."""
+    for unit, factor in (("GHz", 1e9), ("MHz", 1e6), ("kHz", 1e3)):
+        if hz >= factor:
+            return f"{hz / factor:g} {unit}"
+    return f"{hz:g} Hz"
 
 
 def parse_angle(value: object, field: str) -> float:
@@ -151,8 +227,11 @@ def parse_angle(value: object, field: str) -> float:
     if isinstance(value, bool):
         raise DesignError("expected an angle in degrees", field=field, value=value)
     if isinstance(value, (int, float)):
-        deg = float(value)
-    elif isinstance(value, str):
+        try:
+            deg = float(value)
+        except OverflowError:
+            raise DesignError("an angle must be finite", field=field, value=value) from None
+    elif isinstance(value, str) and len(value) <= MAX_LENGTH_CHARS:
         m = re.fullmatch(rf"\s*(-?{_NUM})\s*(deg|degrees|°)?\s*", value)
         if not m:
             raise DesignError('expected an angle in degrees, e.g. 90 or "90 deg"', field=field,
@@ -297,6 +376,9 @@ def parse_mass(value: object, field: str) -> float:
                 raise DesignError(f"unknown mass unit {m.group('unit')!r}: use g, kg, oz or lb",
                                   field=field, value=value)
             kg = float(m.group("num")) * _MASS_UNITS[unit]
+            if math.isfinite(kg) and kg > MAX_MASS_KG:
+                raise DesignError(f"must be at most {MAX_MASS_KG:g} kg", field=field,
+                                  value=value)
             if math.isfinite(kg):
                 return kg
     raise DesignError('expected a mass with its unit, e.g. "45 g", "0.2 kg", "1.5 oz" or '
@@ -315,6 +397,8 @@ def parse_power(text: object, field: str) -> float:
     value = float(m.group(1)) * {"mW": 1e-3, "W": 1.0, "kW": 1e3}[m.group(2)]
     if not math.isfinite(value) or value <= 0:
         raise DesignError("must be a positive power", field=field, value=text)
+    if value > MAX_POWER_W:
+        raise DesignError("must be at most 1 MW", field=field, value=text)
     return value
 
 

@@ -96,3 +96,82 @@ def test_frequency():
     with pytest.raises(DesignError, match="with its unit"):
         parse_frequency("146", "electrical.target")
     assert math.isfinite(parse_frequency("1 GHz", "f"))
+
+
+# -- lengths as the trade writes them ------------------------------------------------
+# 1 in = 25.4 mm and 1 ft = 12 in exactly (source: international yard and pound
+# agreement, 1959; NIST SP 811 appendix B); 10 3/4 in = 273.05 mm, 2 ft 11 1/4 in =
+# 895.35 mm. The marks: U+2033 double prime (inch), U+2032 prime (foot), and the curly
+# quotation marks U+201D and U+2019 that word processors put in their place.
+@pytest.mark.parametrize("text, mm", [
+    ("10-3/4 in", 273.05),
+    ("10 3/4\"", 273.05),
+    ("10 - 3/4 in", 273.05),
+    ("10 3/4\u2033", 273.05),
+    ("10 3/4\u201d", 273.05),
+    ("2 ft 11-1/4 in", 895.35),
+    ("2\u2032 11 1/4\u2033", 895.35),
+    ("2\u2019-11 1/4\u201d", 895.35),
+    ("2'-11-1/4\"", 895.35),
+    ("1 m 20 cm", 1200.0),
+    ("10\u00a03/4 in", 273.05),  # a non-breaking space, as pasted
+])
+def test_parse_length_as_the_trade_writes_it(text, mm):
+    assert parse_length(text, "f") == pytest.approx(mm, abs=1e-9)
+
+
+@pytest.mark.parametrize("text, match", [
+    ("10 in 3 in", "the unit 'in' repeats: give each unit once, the larger first"),
+    ("3 in 2 ft", "the unit 'ft' comes after a smaller unit"),
+    ("20 cm 1 m", "the unit 'm' comes after a smaller unit"),
+    ("1 ft 3 cm", "do not mix metric and inch units"),
+    ("10-3/4", "bare number has no unit"),
+])
+def test_parse_length_refuses_repeated_ascending_or_mixed_units(text, match):
+    with pytest.raises(DesignError, match=match) as info:
+        parse_length(text, "element.side")
+    assert str(info.value).startswith(f"element.side = {text!r}: ")
+
+
+@pytest.mark.parametrize("text, match", [
+    ("1e15 mm", "must be at most 100 m"),
+    ("1e30 mm", "must be at most 100 m"),
+    ("1e300 mm", "must be at most 100 m"),
+    ("10000 m", "must be at most 100 m"),
+    ("1e400 mm", "finite"),
+    ("0.001 mm", "at least 0.01 mm"),
+    ("1" + "0" * 400 + "/3 in", "at most 100 characters"),
+    ("1" + "0" * 90 + "/3 in", "must be at most 100 m"),  # no OverflowError on the way
+])
+def test_parse_length_bounds(text, match):
+    with pytest.raises(DesignError, match=match):
+        parse_length(text, "element.side")
+
+
+def test_parse_length_bound_can_be_tighter_and_says_why():
+    assert parse_length("500 mm", "shop.trim", max_mm=500.0) == 500.0
+    with pytest.raises(DesignError, match=r"at most 500 mm \(a grip\)"):
+        parse_length("501 mm", "shop.trim", max_mm=500.0, bound="a grip")
+
+
+@pytest.mark.parametrize("text", ["1e-300 Hz", "1 Hz", "999 Hz", "100.1 GHz", "1e30 Hz"])
+def test_frequency_outside_the_stated_range(text):
+    with pytest.raises(DesignError, match="must lie between 1 kHz and 100 GHz") as info:
+        parse_frequency(text, "electrical.target")
+    assert str(info.value).startswith(f"electrical.target = {text!r}: ")
+
+
+def test_frequency_range_ends_are_allowed():
+    assert parse_frequency("1 kHz", "f") == 1e3
+    assert parse_frequency("100 GHz", "f") == 100e9
+
+
+def test_mass_and_power_are_bounded():
+    from fabplan.units import parse_mass, parse_power
+
+    assert parse_mass("1000 kg", "purchase.item[1].weight") == 1000.0
+    with pytest.raises(DesignError, match="at most 1000 kg"):
+        parse_mass("1e300 kg", "purchase.item[1].weight")
+    assert parse_power("1.5 kW", "electrical.power") == 1500.0
+    with pytest.raises(DesignError, match="at most 1 MW"):
+        parse_power("1e30 kW", "electrical.power")

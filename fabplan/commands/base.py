@@ -94,8 +94,8 @@ def _fail(message: str) -> None:
 
 
 def guarded(func: F) -> F:
-    """Turn FabplanError (and unreadable files) into one line and exit 2, and
-    Ctrl-C into one line and exit 130."""
+    """Turn FabplanError (and unreadable files) into one line per error and exit 2,
+    and Ctrl-C into one line and exit 130."""
 
     @functools.wraps(func)
     def wrapper(*args: Any, **kwargs: Any) -> Any:
@@ -106,7 +106,12 @@ def guarded(func: F) -> F:
         except FabplanError as exc:
             if debug:
                 raise
-            _fail(str(exc))
+            design = kwargs.get("design")  # a line without a file is about the design's
+            source = STDIN_SOURCE if is_dash(design) else str(design)
+            lines = (exc.named(source) if design is not None else exc).lines
+            for line in lines[:-1]:
+                click.echo(f"fabplan: error: {line}", err=True)
+            _fail(lines[-1])
         except KeyboardInterrupt:
             if debug:
                 raise

@@ -72,8 +72,12 @@ class FormingSettings:
     calibration: TestBend | None = None
 
 
-def read_forming(top: Section, stock: StockSpec) -> FormingSettings:
-    """Read `[forming]` (defaults when absent); every key checked."""
+MAX_GRIP_MM = 1000.0  # straight stock a hand bender holds: a few inches (common practice)
+
+
+def read_forming(top: Section, stock: StockSpec | None) -> FormingSettings:
+    """Read `[forming]` (defaults when absent); every key checked. `stock` (None
+    when it could not be read) bounds the bender's radius."""
     sec = top.table("forming", None)
     if sec is None:
         return FormingSettings()
@@ -86,9 +90,9 @@ def read_forming(top: Section, stock: StockSpec) -> FormingSettings:
         bender = BenderTool(b.length("radius"),
                             b.string("reference", "bend-start", choices=REFERENCES),
                             b.string("stock_direction", "forward", choices=DIRECTIONS),
-                            b.length("grip", 0.0, allow_zero=True))
+                            b.length("grip", 0.0, allow_zero=True, max_mm=MAX_GRIP_MM))
         b.finish()
-        depth = stock.profile.depth_mm
+        depth = stock.profile.depth_mm if stock is not None else 0.0
         if bender.radius_mm <= depth / 2:
             raise DesignError(f"must be more than half the {depth:.2f} mm stock depth",
                               field=b.field("radius"), value=b.data["radius"])

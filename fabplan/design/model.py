@@ -26,7 +26,21 @@ if TYPE_CHECKING:  # pragma: no cover
     from .match import MatchSpec
     from .purchase import PurchaseSettings
 
-__all__ = ["Design", "ElementSpec", "StockSpec", "Shop", "CapacitorSpec"]
+__all__ = ["Design", "ElementSpec", "StockSpec", "Shop", "CapacitorSpec", "MAX_ELEMENTS",
+           "MAX_PIECE_LENGTH_MM", "MAX_BENDS", "MAX_TRIM_MM", "MAX_KERF_MM", "MAX_QUANTITY",
+           "MAX_FILE_BYTES", "MAX_DEPTH"]
+
+# -- bounds on a design, checked while it is read (before any work starts) ----------
+# Each says what a hand-built antenna needs, with room to spare; beyond it the work
+# (sampling, meshing, drawing, packing) would grow without a useful answer.
+MAX_FILE_BYTES = 1 << 20  # a design file: 1 MiB (the templates are about 1 KB)
+MAX_DEPTH = 8  # tables and arrays nested in a design file (the deepest use is 3)
+MAX_ELEMENTS = 100  # [[element]] tables in one design
+MAX_PIECE_LENGTH_MM = 500_000.0  # developed length of one piece of stock: 500 m
+MAX_BENDS = 200  # bends in one piece of stock (each gets a row, marks and a former)
+MAX_TRIM_MM = 500.0  # trim per end: a bender's grip is 25-50 mm (common practice)
+MAX_KERF_MM = 10.0  # saw kerf: an abrasive or cold saw cuts 1-3 mm (common practice)
+MAX_QUANTITY = 100_000  # elements of one kind in an order
 
 
 @dataclass(frozen=True)

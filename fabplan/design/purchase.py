@@ -29,8 +29,9 @@ Every key is checked; errors name the field.
 
 from __future__ import annotations
 
+from collections.abc import Callable
 from dataclasses import dataclass
-from typing import Literal
+from typing import Literal, TypeVar
 
 from ..errors import DesignError, did_you_mean
 from ..section import Section
@@ -39,6 +40,7 @@ from ..units import Currency, parse_currency, parse_mass
 
 __all__ = ["Offer", "LineItem", "PurchaseSettings", "read_purchase", "PriceUnit", "PRICE_UNITS"]
 
+T = TypeVar("T")
 PriceUnit = Literal["piece", "m", "ft", "in", "kg", "lb"]
 PRICE_UNITS: tuple[PriceUnit, ...] = ("piece", "m", "ft", "in", "kg", "lb")
 
@@ -87,8 +89,20 @@ class PurchaseSettings:
     spares_by_element: tuple[tuple[str, int], ...] = ()  # overrides `spares` for these
 
 
-def read_purchase(top: Section, element_names: list[str]) -> PurchaseSettings:
-    """Read `[purchase]` from the design's top-level section (defaults when absent)."""
+# bounds (see fabplan.design.model for the others)
+MAX_OFFERS = 50  # stock offers (of every stock) compared by the purchase plan
+MAX_ITEMS = 1000  # extra parts bought with the stock
+MAX_SPARES = 10_000  # spare pieces of one element
+MAX_ITEM_QUANTITY = 1_000_000  # of one extra part
+MAX_PRICE = 1e9  # one price, in the design's currency
+MAX_STOCK_LENGTH_MM = 1_000_000.0  # one stock piece or spool on offer: 1 km
+STOCK_BOUND = "the longest spool of wire on sale is well under 1 km"
+
+
+def read_purchase(top: Section, element_names: list[str] | None) -> PurchaseSettings:
+    """Read `[purchase]` from the design's top-level section (defaults when absent).
+    `element_names` are the design's elements (None when they could not be read:
+    the names in `spares_by_element` are then not checked)."""
     sec = top.table("purchase", None)
     if sec is None:
         return PurchaseSettings()
@@ -96,33 +110,43 @@ def read_purchase(top: Section, element_names: list[str]) -> PurchaseSettings:
     currency = None
     if sec.has("currency") or has_prices:
         currency = parse_currency(sec.raw("currency"), sec.field("currency"))
-    ends = sec.length("ends", 0.0, allow_zero=True)
-    spares = sec.integer("spares", 0, low=0, high=10_000)
+    ends = sec.length("ends", 0.0, allow_zero=True, max_mm=MAX_STOCK_LENGTH_MM, bound=STOCK_BOUND)
+    spares = sec.integer("spares", 0, low=0, high=MAX_SPARES)
     scrap = sec.number("scrap_percent", 0.0, low=0.0, high=100.0, high_open=True)
-    offers = tuple(_read_offer(s, ends) for s in sec.tables("offer"))
+    offers = tuple(_each(sec, lambda s: _read_offer(s, ends),
+                         sec.tables("offer", max_count=MAX_OFFERS)))
     names = [o.name for o in offers]
     for i, name in enumerate(names):
         if name in names[:i]:
             raise DesignError("two offers have the same name", field=f"{offers[i].field}.name",
                               value=name)
-    items = tuple(_read_item(s) for s in sec.tables("item"))
+    items = tuple(_each(sec, _read_item, sec.tables("item", max_count=MAX_ITEMS)))
     by_element = _read_spares_by_element(sec.table("spares_by_element", None), element_names)
     sec.finish()
     return PurchaseSettings(currency, offers, items, spares, scrap, True, by_element)
 
 
+def _each(sec: Section, read: Callable[[Section], T], tables: list[Section]) -> list[T]:
+    """`read` of each table; with a collector, each on its own (the ones that
+    failed are left out: their errors are recorded)."""
+    if sec.collector is None:
+        return [read(t) for t in tables]
+    out = [sec.collector.attempt(read, t) for t in tables]
+    return [x for x in out if x is not None]
+
+
 def _read_spares_by_element(sec: Section | None,
-                            names: list[str]) -> tuple[tuple[str, int], ...]:
+                            names: list[str] | None) -> tuple[tuple[str, int], ...]:
     """`[purchase.spares_by_element]`: element name = spare pieces, for those elements."""
     if sec is None:
         return ()
     out = []
     for key in sec.keys():
-        if key not in names:
+        if names is not None and key not in names:
             hint = did_you_mean(key, names, 0.5)
             raise DesignError(f"{hint}no element has this name (elements: {', '.join(names)})",
                               field=sec.field(key))
-        out.append((key, sec.integer(key, low=0, high=10_000)))
+        out.append((key, sec.integer(key, low=0, high=MAX_SPARES)))
     sec.finish()
     return tuple(out)
 
@@ -134,15 +158,19 @@ def _price(sec: Section) -> float:
                           field=sec.field("price"), value=price)
     if not price > 0 or price == float("inf"):
         raise DesignError("must be a positive amount", field=sec.field("price"), value=price)
+    if price > MAX_PRICE:
+        raise DesignError(f"must be at most {MAX_PRICE:,.0f}", field=sec.field("price"),
+                          value=price)
     return float(price)
 
 
 def _read_offer(sec: Section, default_ends: float) -> Offer:
-    length = sec.length("length")
-    name = sec.string("name", f"{sec.raw('length')} piece")
+    length = sec.length("length", max_mm=MAX_STOCK_LENGTH_MM, bound=STOCK_BOUND)
+    name = sec.name("name", f"{sec.raw('length')} piece")
     price = _price(sec)
     per = sec.string("per", "piece", choices=PRICE_UNITS)
-    ends = sec.length("ends", default_ends, allow_zero=True)
+    ends = sec.length("ends", default_ends, allow_zero=True, max_mm=MAX_STOCK_LENGTH_MM,
+                      bound=STOCK_BOUND)
     source = sec.string("source", "")
     stock = sec.string("stock", None)
     if stock is not None:
@@ -156,8 +184,8 @@ def _read_offer(sec: Section, default_ends: float) -> Offer:
 
 
 def _read_item(sec: Section) -> LineItem:
-    name = sec.string("name")
-    quantity = sec.integer("quantity", 1, low=1, high=1_000_000)
+    name = sec.name("name")
+    quantity = sec.integer("quantity", 1, low=1, high=MAX_ITEM_QUANTITY)
     weight = parse_mass(sec.raw("weight"), sec.field("weight"))
     price = _price(sec)
     source = sec.string("source", "")

@@ -11,7 +11,7 @@ from ..design.purchase import Offer
 from ..units import Currency
 
 __all__ = ["Cut", "StockPiece", "BuyLine", "ItemLine", "ElementEstimate", "Order",
-           "UnofferedStock"]
+           "UnofferedStock", "PieceGroup"]
 
 
 
@@ -42,6 +42,22 @@ class StockPiece:
     @property
     def utilisation(self) -> float:
         return sum(c.length_mm for c in self.cuts) / self.length_mm
+
+
+@dataclass(frozen=True)
+class PieceGroup:
+    """Stock pieces cut alike (the same offer, the same cuts at the same places):
+    `pieces` in the order they are numbered, the first standing for them all."""
+
+    pieces: tuple[StockPiece, ...]
+
+    @property
+    def count(self) -> int:
+        return len(self.pieces)
+
+    @property
+    def first(self) -> StockPiece:
+        return self.pieces[0]
 
 
 @dataclass(frozen=True)
@@ -125,6 +141,17 @@ class Order:
     @property
     def pieces_to_buy(self) -> int:
         return len(self.pieces)
+
+    def piece_groups(self) -> tuple[PieceGroup, ...]:
+        """The stock pieces, those cut alike gathered in one group (in the order of
+        each group's first piece): a cutting plan of 4 500 identical coils reads as
+        one line with its count."""
+        groups: dict[tuple[object, ...], list[StockPiece]] = {}
+        for piece in self.pieces:
+            key = (piece.offer, tuple((c.element, round(c.length_mm, 6), round(c.start_mm, 6),
+                                       c.spare) for c in piece.cuts))
+            groups.setdefault(key, []).append(piece)
+        return tuple(PieceGroup(tuple(g)) for g in groups.values())
 
     @property
     def utilisation(self) -> float | None:

@@ -26,7 +26,12 @@ from .costing import piece_cost
 from .cutting import StockOption, pack, remnant_mm
 from .records import BuyLine, Cut, ElementEstimate, ItemLine, Order, StockPiece, UnofferedStock
 
-__all__ = ["EstimateResult", "estimate", "spares_for"]
+__all__ = ["EstimateResult", "estimate", "spares_for", "MAX_CUTS"]
+
+# Cuts in one order (every element's quantity and spares, times its pieces of stock):
+# 250 000 is twice the 100 000 parts a large production order holds, and keeps the
+# order's records (one per cut) to a few tens of megabytes.
+MAX_CUTS = 250_000
 
 
 @dataclass(frozen=True)
@@ -104,6 +109,7 @@ def estimate(design: Design,
     findings: list[Finding] = []
     spares = {spec.name: spares_for(spec.name, spec.quantity, settings)
               for spec, _ in elements}
+    _check_cut_count(design, elements, spares)
     offers = settings.offers
     groups = _groups(design, elements, offers, spares)
     cost_of = {o.name: piece_cost(o.price, o.per, o.length_mm, g.mass_per_m)
@@ -220,10 +226,32 @@ def estimate(design: Design,
     return EstimateResult(tuple(estimates), order, tuple(findings))
 
 
+def _element_field(design: Design, index: int) -> str:
+    """How the design file names its element number `index` (from 1)."""
+    return "element" if isinstance(design.raw.get("element"), dict) else f"element[{index}]"
+
+
+def _check_cut_count(design: Design,
+                     elements: Sequence[tuple[ElementSpec, Sequence[PieceCore]]],
+                     spares: dict[str, int]) -> None:
+    """Bad input: more than MAX_CUTS cuts in the order (checked before any list of
+    cuts is made)."""
+    counts = [(spec.quantity + spares[spec.name]) * len(pieces_of)
+              for spec, pieces_of in elements]
+    total = sum(counts)
+    if total > MAX_CUTS:
+        most = max(range(len(counts)), key=lambda i: counts[i])
+        raise DesignError(
+            f"the order comes to {total:,} cuts (quantities and spares times pieces of stock); "
+            f"fabplan plans at most {MAX_CUTS:,} cuts in one order: lower the quantities or "
+            "the spares, or plan the order in parts",
+            field=f"{_element_field(design, most + 1)}.quantity",
+            value=elements[most][0].quantity, source=design.source)
+
+
 def _check_fits(design: Design, elements: Sequence[tuple[ElementSpec, Sequence[PieceCore]]],
                 groups: Sequence[_Group]) -> None:
     """Bad input: a piece longer than the usable length of every offer for its stock."""
-    single = isinstance(design.raw.get("element"), dict)
     longest_of = {g.stock: max(g.offers, key=lambda o: o.usable_mm) for g in groups if g.offers}
     for n, (spec, pieces_of) in enumerate(elements, 1):
         for piece in pieces_of:
@@ -237,4 +265,4 @@ def _check_fits(design: Design, elements: Sequence[tuple[ElementSpec, Sequence[P
                     f"stock offered: the longest usable length is "
                     f"{format_mm(longest.usable_mm)} ({longest.field} {longest.name!r} less its "
                     "unusable ends); offer longer stock or make the element shorter",
-                    field="element" if single else f"element[{n}]", source=design.source)
+                    field=_element_field(design, n), source=design.source)

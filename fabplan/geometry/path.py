@@ -26,7 +26,9 @@ import numpy as np
 from ..numeric import pairs_within
 
 __all__ = ["Straight", "Bend", "Piece", "BendPath", "Line3", "Arc3", "Primitive", "BendSpan",
-           "neutral_radius"]
+           "neutral_radius", "TOUCH_CHUNKS"]
+
+TOUCH_CHUNKS = 40_000  # straight chunks `BendPath.touching` cuts a path into, at most about
 
 Vec = tuple[float, float, float]
 
@@ -319,8 +321,18 @@ class BendPath:
         return np.vstack(pts), np.concatenate(ss)
 
     def is_planar(self, tol_mm: float = 1e-6) -> bool:
-        pts, _ = self.sample(max(self.centreline_length() / 400, 1e-3))
-        return bool(np.all(np.abs(pts[:, 2]) <= tol_mm))
+        """True when the whole centreline lies in the plane z = 0 (within `tol_mm`):
+        checked on each line's ends and each arc's centre, plane and rise, so the
+        answer costs the same for a path of any length."""
+        for prim in self.primitives():
+            if isinstance(prim, Line3):
+                reach = max(abs(prim.start[2]), abs(prim.end[2]))
+            else:
+                reach = (abs(prim.centre[2]) + prim.radius * (abs(prim.u[2]) + abs(prim.v[2]))
+                         + abs(prim.pitch * prim.angle / (2 * math.pi) * prim.axis[2]))
+            if reach > tol_mm:
+                return False
+        return True
 
     def gap_ends(self) -> tuple[np.ndarray, np.ndarray]:
         """The centre points of end B and end A (the two faces of the feed gap)."""
@@ -338,34 +350,89 @@ class BendPath:
 
         Returns (s1, s2, centre distance) for each touching pair (mm), merging
         neighbours. The intended feed gap is not a touch.
+
+        The centreline is cut into straight chunks (each arc into chords whose
+        sagitta is at most 1/20 of the diameter), at most TOUCH_CHUNKS of them
+        however long the path; the exact least distance between every pair of
+        chunks that may come within one diameter (their midpoints found close by
+        fabplan.numeric.pairs_within) decides. The work grows with the number of chunks, not
+        with the length over the diameter.
         """
-        step = diameter_mm / 4
-        pts, s = self.sample(step)
-        total = self.centreline_length() + (self.gap_mm or 0.0)
-        pairs = pairs_within(pts, diameter_mm * (1 - 1e-6))
+        d = diameter_mm
+        starts, ends, s0, s1 = self._chunks(d)
+        if len(starts) < 2:
+            return []
+        mids = (starts + ends) / 2
+        reach = float(np.max(np.linalg.norm(ends - starts, axis=1))) + d
+        pairs = pairs_within(mids, reach)
         if len(pairs) == 0:
             return []
-        ds = np.abs(s[pairs[:, 0]] - s[pairs[:, 1]])
+        i, j = pairs[:, 0], pairs[:, 1]
+        ti, tj, dist = _segment_distances(starts[i], ends[i], starts[j], ends[j])
+        a = s0[i] + ti * (s1[i] - s0[i])
+        b = s0[j] + tj * (s1[j] - s0[j])
+        centreline = self.centreline_length()
+        ds = np.abs(a - b)
         if self.gap_mm is not None:
-            ds = np.minimum(ds, total - ds)
+            ds = np.minimum(ds, centreline + self.gap_mm - ds)
         # along one smooth bend of radius >= d/2, points more than (pi/2) d apart
         # along the stock are at least d apart: closer than that is a touch
-        bad = pairs[ds > (math.pi / 2) * diameter_mm + 2 * step]
-        if self.gap_mm is not None and len(bad):
+        bad = (dist < d * (1 - 1e-6)) & (ds > (math.pi / 2) * d + d / 2)
+        if self.gap_mm is not None:
             # pairs across the gap near the ends are the gap itself
-            near_a = s[bad].min(axis=1) < 2 * diameter_mm
-            near_b = s[bad].max(axis=1) > self.centreline_length() - 2 * diameter_mm
-            bad = bad[~(near_a & near_b)]
+            lo, hi = np.minimum(a, b), np.maximum(a, b)
+            bad &= ~((lo < 2 * d) & (hi > centreline - 2 * d))
+        found = sorted(zip(np.minimum(a, b)[bad].tolist(), np.maximum(a, b)[bad].tolist(),
+                           dist[bad].tolist()))
         out: list[tuple[float, float, float]] = []
-        for i, j in sorted(bad.tolist(), key=lambda ij: (s[min(ij)], s[max(ij)])):
-            a, b = sorted((float(s[i]), float(s[j])))
-            dist = float(np.linalg.norm(pts[i] - pts[j]))
-            if out and abs(out[-1][0] - a) < 2 * diameter_mm:
-                if dist < out[-1][2]:
-                    out[-1] = (a, b, dist)
+        for lo_s, hi_s, gap in found:
+            if out and abs(out[-1][0] - lo_s) < 2 * d:
+                if gap < out[-1][2]:
+                    out[-1] = (lo_s, hi_s, gap)
                 continue
-            out.append((a, b, dist))
+            out.append((lo_s, hi_s, gap))
         return out
+
+    def _chunks(self, diameter_mm: float) -> tuple[np.ndarray, np.ndarray, np.ndarray,
+                                                   np.ndarray]:
+        """The centreline as straight chunks: (starts (N, 3), ends (N, 3), s at
+        start (N,), s at end (N,)), mm. Arcs become chords of sagitta at most
+        diameter/20; no chunk is longer than max(diameter, length/TOUCH_CHUNKS),
+        and the chords are coarsened (never below 16 per turn) so that there are
+        about TOUCH_CHUNKS at most."""
+        d = diameter_mm
+        total = self.centreline_length()
+        longest = max(d, total / TOUCH_CHUNKS)
+        prims = self.primitives()
+        # chords per radian of each arc: sagitta r(1 - cos(dphi/2)) <= d/20
+        per_rad = []
+        for prim in prims:
+            if isinstance(prim, Arc3) and prim.radius > 0:
+                half = math.acos(max(-1.0, 1 - min(2.0, d / 20 / prim.radius)))
+                per_rad.append(1 / (2 * half))
+            else:
+                per_rad.append(0.0)
+        chords = sum(p.angle * k for p, k in zip(prims, per_rad) if isinstance(p, Arc3))
+        coarsen = max(1.0, chords / TOUCH_CHUNKS)
+        starts, ends, s_a, s_b = [], [], [], []
+        for prim, k in zip(prims, per_rad):
+            if prim.length <= 0:
+                continue
+            if isinstance(prim, Line3):
+                n = max(1, math.ceil(prim.length / longest))
+            else:
+                n = max(1, math.ceil(prim.angle * max(k / coarsen, 16 / (2 * math.pi))),
+                        math.ceil(prim.length / longest))
+            pts = prim.points(n)
+            s = prim.s_start + np.linspace(0.0, prim.length, n + 1)
+            starts.append(pts[:-1])
+            ends.append(pts[1:])
+            s_a.append(s[:-1])
+            s_b.append(s[1:])
+        if not starts:
+            empty = np.zeros((0, 3))
+            return empty, empty, np.zeros(0), np.zeros(0)
+        return (np.vstack(starts), np.vstack(ends), np.concatenate(s_a), np.concatenate(s_b))
 
     def scaled(self, factor: float) -> BendPath:
         """Every length times `factor` (angles kept)."""
@@ -375,6 +442,36 @@ class BendPath:
         o = self.origin
         return BendPath(pieces, (o[0] * factor, o[1] * factor, o[2] * factor), self.heading,
                         self.normal, None if self.gap_mm is None else self.gap_mm * factor)
+
+
+def _segment_distances(p0: np.ndarray, p1: np.ndarray, q0: np.ndarray,
+                       q1: np.ndarray) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+    """The closest points of segment pairs p0-p1 and q0-q1 (arrays (N, 3), mm):
+    their parameters t_p, t_q in [0, 1] and the distance between them.
+    source: Ericson, Real-Time Collision Detection (2005), sec. 5.1.9 (closest
+    points of two segments), vectorised."""
+    d1, d2, r = p1 - p0, q1 - q0, p0 - q0
+    a = np.einsum("ij,ij->i", d1, d1)
+    e = np.einsum("ij,ij->i", d2, d2)
+    f = np.einsum("ij,ij->i", d2, r)
+    c = np.einsum("ij,ij->i", d1, r)
+    b = np.einsum("ij,ij->i", d1, d2)
+    tiny = 1e-12 * np.maximum(np.maximum(a, e), 1e-300)
+    denom = a * e - b * b
+    with np.errstate(divide="ignore", invalid="ignore"):
+        s = np.where(denom > tiny * np.maximum(a, e), np.clip((b * f - c * e) / denom, 0, 1),
+                     0.0)
+        s = np.where(a > tiny, s, 0.0)
+        t = np.where(e > tiny, (b * s + f) / e, 0.0)
+        low, high = t < 0, t > 1
+        t = np.clip(t, 0.0, 1.0)
+        s = np.where(low & (a > tiny), np.clip(-c / a, 0, 1), s)
+        s = np.where(high & (a > tiny), np.clip((b - c) / a, 0, 1), s)
+        s = np.where(a > tiny, s, 0.0)
+        t = np.where((e <= tiny) & (a > tiny), 0.0, t)
+        s = np.where((e <= tiny) & (a > tiny), np.clip(-c / a, 0, 1), s)
+    gap = (p0 + s[:, None] * d1) - (q0 + t[:, None] * d2)
+    return s, t, np.linalg.norm(gap, axis=1)
 
 
 def _unit(v: np.ndarray) -> np.ndarray:

@@ -115,3 +115,164 @@ def test_inside_and_overall_length_give_the_same_side():
     assert c.elements[0].developed_length_mm == pytest.approx(a.elements[0].developed_length_mm)
     assert a.elements[0].developed_length_mm == pytest.approx(
         2 * 900 + math.pi * (50 + d_mm) - 10.0)
+
+
+# -- issue 15: one-line errors instead of tracebacks, every error at once ------------------
+def _error(text: str, source: str = "d.toml") -> DesignError:
+    with pytest.raises(DesignError) as info:
+        parse_design(text, source)
+    for line in info.value.lines:
+        assert "\n" not in line and line.startswith(f"{source}: "), line
+    return info.value
+
+
+@pytest.mark.parametrize("element, field, match", [
+    ('side = "1e15 mm"\nspacing = "50 mm"', "element[1].side", "at most 100 m"),
+    ('side = "1e30 mm"\nspacing = "50 mm"', "element[1].side", "at most 100 m"),
+    ('side = "10000 m"\nspacing = "50 mm"', "element[1].side", "at most 100 m"),
+    ('side = "900 mm"\nspacing = "50 mm"\nfeed_gap = "1e300 mm"', "element[1].feed_gap",
+     "at most 100 m"),
+    ('side = "900 mm"\nspacing = "50 mm"\ntrim = "1e30 mm"', "element[1].trim",
+     "at most 500 mm"),
+    ('side = "1' + "0" * 330 + '/3 in"\nspacing = "50 mm"', "element[1].side",
+     r"\(336 characters\)"),
+    ('side = "900 mm"\nspacing = "50 mm"\nquantity = 100001', "element[1].quantity",
+     "at most 100000"),
+])
+def test_huge_values_are_one_line_errors(element, field, match):
+    err = _error(design(element=element))
+    assert err.field == field
+    assert len(err.lines) == 1
+    assert err.lines[0].startswith(f"d.toml: {field} = ")
+    assert pytest.raises(DesignError, parse_design, design(element=element)).match(match)
+
+
+def test_a_huge_number_is_not_an_overflow():
+    err = _error(design(stock='diameter = "4 mm"\nmaterial = "cu-c11000-annealed"\n'
+                              'k_factor = 1' + "0" * 400))
+    assert err.field == "stock.k_factor" and "finite" in err.rule
+    assert "(401 characters)" in str(err)
+
+
+def test_shop_trim_and_kerf_have_their_own_bounds():
+    err = _error(design(extra='[shop]\ntrim = "1e30 mm"\nkerf = "20 mm"\n'))
+    assert [e.field for e in err.errors] == ["shop.kerf", "shop.trim"]
+    assert "a saw's kerf" in err.lines[0] and "a bender's grip" in err.lines[1]
+
+
+def test_deep_nesting_is_one_line():
+    deep = "x = " + "[" * 100_000 + "]" * 100_000 + "\n"
+    err = _error(deep + design())
+    assert "nested too deep" in str(err)
+    err = _error("x = " + "[" * 20 + "]" * 20 + "\n" + design())
+    assert "nested 9 levels deep" in str(err)
+
+
+def test_a_byte_order_mark_is_accepted(tmp_path):
+    from fabplan.design.read import load_design
+
+    path = tmp_path / "bom.toml"
+    path.write_text(design(), encoding="utf-8-sig")  # as some editors save
+    assert path.read_bytes()[:3] == b"\xef\xbb\xbf"
+    assert load_design(path).elements[0].shape == "folded-dipole"
+
+
+def test_a_file_too_large_is_refused(tmp_path):
+    from fabplan.design.read import load_design
+
+    path = tmp_path / "big.toml"
+    path.write_text(design() + "# " + "x" * (1 << 20) + "\n", encoding="utf-8")
+    with pytest.raises(DesignError, match="at most 1024 KiB") as info:
+        load_design(path)
+    assert str(info.value).startswith(str(path))
+
+
+@pytest.mark.parametrize("key, shown", [
+    ('"" = 1', 'element[1]."": unknown key'),
+    ('"side " = "1 mm"', 'element[1]."side ": unknown key; did you mean \'side\'?'),
+    ('"a\\u0007" = 1', 'element[1]."a\\u0007": unknown key'),
+])
+def test_odd_keys_are_shown_quoted(key, shown):
+    err = _error(design(element=f'side = "900 mm"\nspacing = "50 mm"\n{key}'))
+    assert err.lines[0].startswith(f"d.toml: {shown}")
+
+
+def test_a_200_kb_value_is_shortened():
+    value = "9" * 200_000
+    err = _error(design(element=f'side = "{value}"\nspacing = "50 mm"'))
+    assert len(str(err)) < 300
+    assert "(200000 characters)" in str(err)
+
+
+@pytest.mark.parametrize("where, text", [
+    ("project.name", '[project]\nname = "a\\u0007b"\n'),
+    ("project.notes", '[project]\nnotes = "line one\\nline two"\n'),
+    ("element[2].name", '[[element]]\nname = "x\\u001b[31m"\nshape = "hairpin"\n'
+                        'leg = "100 mm"\nspacing = "20 mm"\n'),
+    ("purchase.offer[1].name", '[purchase]\ncurrency = "USD"\n[[purchase.offer]]\n'
+                               'name = "a\\tb"\nlength = "3 m"\nprice = 1.0\n'),
+    ("purchase.offer[1].source", '[purchase]\ncurrency = "USD"\n[[purchase.offer]]\n'
+                                 'length = "3 m"\nprice = 1.0\nsource = "\\u0000"\n'),
+    ("purchase.item[1].name", '[purchase]\ncurrency = "USD"\n[[purchase.item]]\n'
+                              'name = "\\u202e"\nweight = "1 g"\nprice = 1.0\n'),
+])
+def test_control_characters_in_names_and_text_are_refused(where, text):
+    err = _error(design() + text)
+    assert err.field == where
+    assert "one line of printable characters" in err.rule
+
+
+def test_names_and_text_are_bounded():
+    err = _error(design() + f'[project]\nname = "{"n" * 201}"\nnotes = "{"t" * 1001}"\n')
+    assert [e.field for e in err.errors] == ["project.name", "project.notes"]
+    assert "a name is at most 200 characters" in err.lines[0]
+    assert "a text is at most 1000 characters" in err.lines[1]
+    assert "(1001 characters)" in err.lines[1]
+
+
+def test_every_error_in_the_file_at_once():
+    text = design(stock='diameter = "4 mm"\nmaterial = "copper"',
+                  element='side = "900 furlongs"\nspacing = 50\nquantity = 0\ncolour = "red"',
+                  extra='[shop]\nfraction = 10\n[purchase]\ncurrency = "usd"\n')
+    err = _error(text)
+    fields = [e.field for e in err.errors]
+    assert fields == ["stock.material", "shop.fraction", "element[1].quantity",
+                      "element[1].colour", "element[1].side", "element[1].spacing",
+                      "purchase.currency"]
+    assert str(err) == err.lines[0]
+    assert isinstance(err, DesignError) and err.field == "stock.material"
+
+
+def test_a_failure_stops_what_depends_on_it():
+    # each key's own error is reported, in both elements; the checks that combine an
+    # element's keys (spacing against diameter, gap against side) are not, as they
+    # would only repeat the first failure
+    text = design(element='side = "900 mm"\nspacing = "50 furlongs"\nfeed_gap = "500 m"') + \
+        '[[element]]\nname = "b"\nshape = "hairpin"\nleg = "0 mm"\nspacing = "20 mm"\n'
+    err = _error(text)
+    assert [e.field for e in err.errors] == ["element[1].spacing", "element[1].feed_gap",
+                                             "element[2].leg"]
+    # a misspelt shape: the rest of that element is not read against the wrong shape
+    err = _error(design().replace('"folded-dipole"', '"folded-dipol"'))
+    assert [e.field for e in err.errors] == ["element[1].shape"]
+
+
+def test_elements_and_bends_are_bounded():
+    many = "".join(f'[[element]]\nname = "e{i}"\nshape = "hairpin"\nleg = "100 mm"\n'
+                   'spacing = "20 mm"\n' for i in range(101))
+    err = _error('[stock]\ndiameter = "4 mm"\nmaterial = "cu-c11000-annealed"\n' + many)
+    assert err.field == "element" and "at most 100" in err.rule
+    rows = "".join('[[element.bends]]\nstraight = "10 mm"\nangle = 10\nradius = "10 mm"\n'
+                   for _ in range(201))
+    err = _error('[stock]\ndiameter = "4 mm"\nmaterial = "cu-c11000-annealed"\n'
+                 '[element]\nshape = "custom"\n' + rows)
+    assert err.field == "element.bends" and "at most 200" in err.rule
+
+
+def test_a_piece_longer_than_500_m_is_refused_before_any_work():
+    text = ('[stock]\ndiameter = "2 mm"\nmaterial = "cu-c11000-annealed"\n'
+            '[[element]]\nshape = "helix"\nturns = 1000\ndiameter = "100 mm"\npitch = "1 m"\n')
+    err = _error(text)
+    assert err.field == "element[1]"
+    # 1000 turns of sqrt((pi 100)^2 + 1000^2) mm: 1048.2 m (the textbook helix length)
+    assert "1048.2 m long" in err.rule and "up to 500 m" in err.rule

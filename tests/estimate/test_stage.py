@@ -145,3 +145,36 @@ def test_spares_for_one_element(hairpin, plan_of):
     with pytest.raises(Exception, match="did you mean 'pin'") as err:
         plan_of(hairpin(STICKS.format(extra='[purchase.spares_by_element]\npun = 3\n')))
     assert err.value.field == "purchase.spares_by_element.pun"
+
+
+def test_an_order_of_too_many_cuts_is_refused_first(hairpin):
+    """Before: 100 000 parts and more were packed cut by cut for minutes. The order's
+    size is checked before any list of cuts is made, and names the largest quantity."""
+    from fabplan.errors import DesignError
+    from fabplan.estimate.stage import MAX_CUTS, estimate
+    from fabplan.plan import core_element
+
+    second = '\n[[element]]\nname = "b"\nshape = "hairpin"\nleg = "50 mm"\nspacing = "20 mm"\n' \
+             'quantity = 100000\n[[element]]\nname = "c"\nshape = "hairpin"\nleg = "60 mm"\n' \
+             'spacing = "20 mm"\nquantity = 100000\n'
+    text = hairpin(quantity=90_000) + second
+    design = parse_design(text, "big.toml")
+    elements = [(spec, core_element(design, spec)[1]) for spec in design.elements]
+    with pytest.raises(DesignError, match="290,000 cuts") as info:
+        estimate(design, elements)
+    assert info.value.field == "element[2].quantity" and MAX_CUTS == 250_000
+    assert str(info.value).startswith("big.toml: element[2].quantity = 100000: ")
+
+
+def test_stock_pieces_cut_alike_are_grouped(hairpin, plan_of):
+    plan = plan_of(hairpin(STICKS.format(extra=""), quantity=200))
+    o = plan.order
+    groups = o.piece_groups()
+    assert sum(g.count for g in groups) == o.pieces_to_buy
+    assert len(groups) < o.pieces_to_buy
+    seen = [p.index for g in groups for p in g.pieces]
+    assert sorted(seen) == list(range(1, o.pieces_to_buy + 1))
+    for g in groups:
+        pattern = [(c.element, c.length_mm, c.start_mm) for c in g.first.cuts]
+        assert all([(c.element, c.length_mm, c.start_mm) for c in p.cuts] == pattern
+                   and p.offer == g.first.offer for p in g.pieces)

@@ -131,3 +131,101 @@ def test_scaling_every_dimension_scales_every_length(side, spacing, gap, d, fact
         assert sb.start_mm == pytest.approx(sa.start_mm * factor)
         assert sb.end_mm == pytest.approx(sa.end_mm * factor)
     assert b.closure_error() == pytest.approx(0.0, abs=1e-6 * factor * side)
+
+
+# -- issue 15: the self-touch and planarity checks cost the same for any length --------------
+def test_segment_distances_agree_with_shapely():
+    """The exact least distance between two segments, against GEOS for flat ones
+    and against a fine grid of both parameters for skew ones in 3D."""
+    from shapely.geometry import LineString
+
+    from fabplan.geometry.path import _segment_distances
+
+    rng = np.random.default_rng(15)
+    p0, p1, q0, q1 = (rng.uniform(-10, 10, (200, 3)) for _ in range(4))
+    p1[:20] = p0[:20]  # some segments are points
+    q1[10:30] = q0[10:30]
+    p1[40:60] = p0[40:60] + 2.0 * (q1[40:60] - q0[40:60])  # some are parallel
+    flat = [a.copy() for a in (p0, p1, q0, q1)]
+    for a in flat:
+        a[:, 2] = 0.0
+    _, _, dist = _segment_distances(*flat)
+    for k in range(200):
+        # source: shapely (GEOS) distance between two line strings in the plane
+        ref = LineString([flat[0][k, :2], flat[1][k, :2] + (1e-12 if k < 20 else 0)]).distance(
+            LineString([flat[2][k, :2], flat[3][k, :2] + (1e-12 if 10 <= k < 30 else 0)]))
+        assert dist[k] == pytest.approx(ref, abs=1e-6)
+    s, t, dist = _segment_distances(p0, p1, q0, q1)
+    grid = np.linspace(0, 1, 201)
+    for k in range(0, 200, 7):
+        a = p0[k] + grid[:, None] * (p1[k] - p0[k])
+        b = q0[k] + grid[:, None] * (q1[k] - q0[k])
+        brute = np.min(np.linalg.norm(a[:, None, :] - b[None, :, :], axis=2))
+        assert dist[k] <= brute + 1e-9
+        assert dist[k] >= brute - 0.02 * np.linalg.norm(p1[k] - p0[k] + q1[k] - q0[k]) - 1e-9
+        assert 0 <= s[k] <= 1 and 0 <= t[k] <= 1
+        assert np.linalg.norm(p0[k] + s[k] * (p1[k] - p0[k]) - q0[k] - t[k] * (q1[k] - q0[k])) \
+            == pytest.approx(dist[k])
+
+
+def _dense_least_distance(path: BendPath, d: float) -> float:
+    """Reference: the least distance between centreline points sampled every d/40 that
+    lie more than (pi/2) d + d/2 apart along the stock (scipy's k-d tree)."""
+    from scipy.spatial import cKDTree
+
+    pts, s = path.sample(d / 40)
+    pairs = cKDTree(pts).query_pairs(1.5 * d, output_type="ndarray")
+    if len(pairs) == 0:
+        return math.inf
+    far = np.abs(s[pairs[:, 0]] - s[pairs[:, 1]]) > (math.pi / 2) * d + d / 2
+    if not far.any():
+        return math.inf
+    return float(np.min(np.linalg.norm(pts[pairs[far, 0]] - pts[pairs[far, 1]], axis=1)))
+
+
+@settings(max_examples=40, deadline=None, derandomize=True)
+@given(st.lists(st.tuples(st.floats(0, 40), st.floats(20, 350), st.floats(3, 15),
+                          st.sampled_from([0.0, 90.0, 180.0, 33.0])), min_size=1, max_size=5),
+       st.floats(0, 40), st.floats(2, 6))
+def test_touching_agrees_with_dense_sampling(rows, tail, d):
+    pieces: list = []
+    for straight, angle, radius, rot in rows:
+        pieces += ([Straight(straight)] if straight > 0 else []) + [Bend(radius, angle, rot)]
+    if tail > 0:
+        pieces.append(Straight(tail))
+    path = BendPath(tuple(pieces))
+    ref = _dense_least_distance(path, d)
+    found = path.touching(d)
+    if ref < 0.9 * d:
+        assert found, ref
+    elif ref > 1.05 * d:
+        assert not found, (ref, found)
+
+
+def test_touching_work_is_bounded_for_long_paths():
+    """Before: a 1 km hairpin of 2 mm wire was sampled every 0.5 mm (4 million points,
+    hundreds of MB). The chunks stay about TOUCH_CHUNKS however long the path."""
+    from fabplan.geometry.path import TOUCH_CHUNKS
+
+    long_hairpin = BendPath((Straight(250_000.0), Bend(50.0, 180.0), Straight(250_000.0)))
+    starts, _, _, _ = long_hairpin._chunks(2.0)
+    assert len(starts) <= 1.1 * TOUCH_CHUNKS
+    assert long_hairpin.touching(2.0) == []
+    touching = BendPath((Straight(250_000.0), Bend(0.9, 180.0), Straight(250_000.0)))
+    assert touching.touching(2.0)  # legs 1.8 mm apart, centre to centre, for 2 mm wire
+    coil = BendPath((Bend(50.0, 360.0 * 1000, 0.0, 5.0),))  # 1000 turns, 314 m of wire
+    starts, _, _, _ = coil._chunks(2.0)
+    assert len(starts) <= 1.1 * TOUCH_CHUNKS
+    assert coil.touching(2.0) == []
+    assert BendPath((Bend(50.0, 360.0 * 1000, 0.0, 1.9),)).touching(2.0)  # turns 1.9 mm apart
+
+
+def test_is_planar_is_exact():
+    flat_loop = rect_loop.build(rect_loop.Params(21_300.0, 21_300.0, 50.0, 20.0), 1.6)
+    assert flat_loop.is_planar()
+    assert not helix.build(helix.Params(3, 80.0, 35.0), 2.0).is_planar()
+    # a twist of a thousandth of a degree lifts the far end of a 20 m run 0.35 mm
+    twisted = BendPath((Straight(100), Bend(20, 90), Straight(100), Bend(20, 90, 0.001),
+                        Straight(20_000)))
+    assert not twisted.is_planar(tol_mm=0.1)
+    assert twisted.is_planar(tol_mm=1.0)

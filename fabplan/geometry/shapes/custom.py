@@ -37,15 +37,22 @@ class Params:
     feed_gap_mm: float | None = None
 
 
+MAX_ROWS = 200  # bends in one bend table (each gets a row, marks and a jig former)
+
+
 def read(sec: Section) -> Params:
     rows = []
-    for row in sec.tables("bends", required=True):
+    for row in sec.tables("bends", required=True, max_count=MAX_ROWS):
         angle = row.angle("angle")
         if not 0 < angle <= 360:
             raise DesignError("a bend angle must be more than 0 and at most 360 degrees",
                               field=row.field("angle"), value=angle)
+        rotation = row.angle("rotation", 0.0)
+        if not -360 <= rotation <= 360:
+            raise DesignError("a rotation lies between -360 and 360 degrees",
+                              field=row.field("rotation"), value=rotation)
         rows.append(Row(row.length("straight", 0.0, allow_zero=True), angle,
-                        row.length("radius"), row.angle("rotation", 0.0)))
+                        row.length("radius"), rotation))
         row.finish()
     if not rows:
         raise DesignError("give at least one bend", field=sec.field("bends"))
