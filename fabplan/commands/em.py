@@ -52,10 +52,11 @@ def _core_plan(design: Any) -> Any:
     return plan
 
 
-def _frequency(text: str | None, option: str, default: float | None) -> float | None:
+def _frequency(text: str | None, option: str, default: float | None,
+               **bounds: float) -> float | None:
     from ..units import parse_frequency
 
-    return default if text is None else parse_frequency(text, option)
+    return default if text is None else parse_frequency(text, option, **bounds)
 
 
 @click.command()
@@ -110,7 +111,7 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     lo = _frequency(f_from, "--from", settings.sweep_from_hz) or settings.sweep_from_hz
     hi = _frequency(f_to, "--to", settings.sweep_to_hz) or settings.sweep_to_hz
     default_step = settings.sweep_step_hz if f_from is None and f_to is None else (hi - lo) / 80
-    step = _frequency(f_step, "--step", default_step) or default_step
+    step = _frequency(f_step, "--step", default_step, low_hz=1.0) or default_step
     check_sweep(lo, hi, step, "--from/--to/--step")
     settings = dataclasses.replace(settings, sweep_from_hz=lo, sweep_to_hz=hi, sweep_step_hz=step)
     plan = _core_plan(d)

@@ -169,10 +169,14 @@ def _read_matching(sec: Section | None,
     return matching, system
 
 
+FEED_LINE_MAX_MM = 1_000_000.0  # 1 km
+
+
 def _read_feed_line(sec: Section | None) -> Line | None:
     if sec is None:
         return None
-    length = sec.length("length")
+    length = sec.length("length", max_mm=FEED_LINE_MAX_MM,
+                        bound="a feed line up to 1 km (the loss model covers it)")
     z0 = _impedance(sec, "impedance", 50.0)
     vf = _velocity_factor(sec)
     loss, ref = _loss(sec)
@@ -189,7 +193,9 @@ def _read_sweep(sec: Section, target: float | None) -> tuple[float, float, float
         lo, hi = target * (1 - DEFAULT_SPAN), target * (1 + DEFAULT_SPAN)
         return lo, hi, (hi - lo) / (DEFAULT_POINTS - 1)
     lo, hi = sw.frequency("from"), sw.frequency("to")
-    step = sw.frequency("step", (hi - lo) / (DEFAULT_POINTS - 1) if hi > lo else 1.0)
+    # a small tuned loop's band may be a few kHz wide: steps down to 1 Hz
+    step = sw.frequency("step", (hi - lo) / (DEFAULT_POINTS - 1) if hi > lo else 1.0,
+                        low_hz=1.0)
     sw.finish()
     check_sweep(lo, hi, step, sw.path)
     return lo, hi, step
