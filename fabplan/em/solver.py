@@ -893,14 +893,30 @@ class WireModel:
             self._capacitance = self._solve_capacitance()
         return self._capacitance
 
-    def _solve_capacitance(self) -> float:
+    def tuning_capacitance(self, f_hz: float) -> float:
+        """The tuning capacitor's value (F) that would put the target port (or group) at
+        X = 0 at `f_hz` (Hz) instead of at its own frequency (a loop tuned across a band)."""
+        return self._solve_capacitance(float(f_hz))
+
+    def solve_tuned(self, f_hz: float) -> Solution:
+        """Solve at `f_hz` (Hz) with the tuning capacitor re-solved for X = 0 there (its
+        value is the solution's `capacitance_f`); the model's own value is kept."""
+        c = self.tuning_capacitance(f_hz)
+        own = self._capacitance
+        self._capacitance = c
+        try:
+            return self.solve(f_hz)
+        finally:
+            self._capacitance = own
+
+    def _solve_capacitance(self, at_hz: float | None = None) -> float:
         """The tuning capacitor's value: with the other ports driven as given, the target
-        port (or group) sees X = 0 at the capacitor's frequency. The capacitor's gap is
-        treated as one more port: the admittances Y between the ports and that gap give the
-        target's admittance as a bilinear function of the capacitor's impedance z, and X = 0
-        is a quadratic in its reactance."""
+        port (or group) sees X = 0 at the capacitor's frequency (or `at_hz`). The
+        capacitor's gap is treated as one more port: the admittances Y between the ports
+        and that gap give the target's admittance as a bilinear function of the
+        capacitor's impedance z, and X = 0 is a quadratic in its reactance."""
         (f, cap), = [(f, e) for f, e in self.loads if isinstance(e, TunedCapacitor)]
-        f_hz = cap.f_hz
+        f_hz = cap.f_hz if at_hz is None else at_hz
         self._check_frequency(f_hz)
         omega = 2 * math.pi * f_hz
         with _OneBlasThread():
@@ -923,7 +939,7 @@ class WireModel:
         beta = complex((w @ y[:n, n]) * (y[n, :n] @ v))
         gamma = complex(y[n, n])
         delta = alpha * gamma - beta
-        z0 = complex(cap.esr_ohm or 0.0)
+        z0 = complex((cap.esr_ohm or 0.0) + cap.r_ohm)
         z1 = complex(1.0 / cap.q, -1.0) if cap.q else complex(0.0, -1.0)
         a0, a1 = alpha + delta * z0, delta * z1
         b0, b1 = 1 + np.conj(gamma * z0), np.conj(gamma * z1)
