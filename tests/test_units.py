@@ -96,3 +96,13 @@ def test_frequency():
     with pytest.raises(DesignError, match="with its unit"):
         parse_frequency("146", "electrical.target")
     assert math.isfinite(parse_frequency("1 GHz", "f"))
+
+
+def test_capacitance_and_voltage_for_people():
+    from fabplan.units import format_capacitance, format_voltage
+
+    assert format_capacitance(47.5e-12) == "47.5 pF"
+    assert format_capacitance(1.2e-9) == "1.20 nF"
+    assert format_capacitance(2.2e-6) == "2.2 uF"
+    assert format_voltage(850.0) == "850 V"
+    assert format_voltage(6128.8) == "6.13 kV"

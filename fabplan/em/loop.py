@@ -54,6 +54,7 @@ __all__ = ["loop_figures", "loop_cautions", "helix_figures", "BAND_POINTS", "COU
 BAND_POINTS = 5  # frequencies across [electrical] band where the capacitor is retuned
 COUPLING_SWR = 2.0  # the coupling loop's SWR at resonance above this is "far off"
 QUADRATURE_TOL_DEG = 20.0  # two loops' currents further than this from 90 deg apart
+REACH_FRAC = 0.01  # a tuned feed whose |X| exceeds this share of |Z| missed X = 0
 _C0_MM_S = 299_792_458_000.0
 
 
@@ -186,6 +187,10 @@ def loop_figures(elements: Sequence[ElectricalInput], settings: ElectricalSettin
         drawn = cg.perimeter_mm / math.pi
     z0 = complex(sol.z_in)
     swr0 = float(settings.chain.swr_system(z0, f_hz))
+    if solved and abs(z0.imag) > REACH_FRAC * abs(z0):
+        notes.append(f"no capacitance puts the feed at X = 0 (the coupling loop is coupled too "
+                     f"weakly for that); the capacitor is set nearest resonance, where the feed "
+                     f"sees {z0.real:.1f} {z0.imag:+.1f}j ohm")
     if swr0 > COUPLING_SWR:
         findings.append(Finding(
             "loop-coupling-mismatch", "warning",

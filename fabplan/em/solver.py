@@ -39,7 +39,7 @@ from __future__ import annotations
 
 import logging
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any, Literal
 
@@ -949,15 +949,20 @@ class WireModel:
         roots = np.roots([c2, c1, c0]) if abs(c2) > 1e-300 else np.roots([c1, c0])
         good = [float(r.real) for r in np.atleast_1d(roots)
                 if abs(r.imag) <= 1e-9 * abs(r) and r.real > 0]
-        if not good:
-            raise FabplanError(f"no capacitance makes the reactance at {cap.port!r} zero at "
-                               f"{f_hz / 1e6:.6g} MHz: the structure needs inductance there, "
-                               "not capacitance", field=cap.name, value=f_hz)
 
         def admittance(xc: float) -> complex:
             zc = z0 + z1 * xc
             return alpha - beta * zc / (1 + gamma * zc)
 
+        if not good:
+            best = _least_phase(admittance)
+            log.debug("tuning capacitor %s: X = 0 is out of reach at %.6g MHz; set for the "
+                      "least phase angle at the port", cap.name, f_hz / 1e6)
+            if not math.isfinite(best):
+                raise FabplanError(f"no capacitance brings {cap.port!r} near resonance at "
+                                   f"{f_hz / 1e6:.6g} MHz", field=cap.name, value=f_hz)
+            c = 1.0 / (omega * best)
+            return c
         best = max(good, key=lambda xc: abs(admittance(xc)))
         c = 1.0 / (omega * best)
         log.debug("tuning capacitor %s: %.4g pF for X = 0 at %.6g MHz", cap.name, c * 1e12,
@@ -1052,6 +1057,27 @@ class WireModel:
 
 
 StructureModel = WireModel
+
+
+def _least_phase(admittance: Callable[[float], complex]) -> float:
+    """The capacitor reactance (ohm) that brings a port's admittance nearest the real axis
+    (the least |phase|) when no reactance makes it real: a weakly coupled tuned loop set
+    as close to resonance as it goes. A log grid from 1 milliohm to 1 megohm, refined by
+    Brent's bounded minimiser between the best point's neighbours."""
+    from ..numeric import minimize_bounded
+
+    grid = np.logspace(-3.0, 6.0, 451)
+
+    def cost(log_xc: float) -> float:
+        y = admittance(10.0 ** log_xc)
+        return abs(math.atan2(y.imag, y.real)) if y != 0 else math.pi
+
+    values = [cost(float(g)) for g in np.log10(grid)]
+    k = int(np.argmin(values))
+    lo = float(np.log10(grid[max(k - 1, 0)]))
+    hi = float(np.log10(grid[min(k + 1, len(grid) - 1)]))
+    x, _ = minimize_bounded(cost, lo, hi, xatol=1e-9)
+    return float(10.0 ** x)
 
 
 def _solve_upper(z: np.ndarray, rhs: np.ndarray) -> np.ndarray:

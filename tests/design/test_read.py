@@ -115,3 +115,23 @@ def test_inside_and_overall_length_give_the_same_side():
     assert c.elements[0].developed_length_mm == pytest.approx(a.elements[0].developed_length_mm)
     assert a.elements[0].developed_length_mm == pytest.approx(
         2 * 900 + math.pi * (50 + d_mm) - 10.0)
+
+
+@pytest.mark.parametrize("extra, needle", [
+    ('band = { from = "14.35 MHz", to = "14.0 MHz" }', "must be above"),
+    ('band = { from = "7 MHz", to = "21 MHz" }', "an octave"),
+])
+def test_electrical_band_is_checked(extra: str, needle: str):
+    text = ('[stock]\ncatalogue = "acr-1/4"\n[[element]]\nshape = "circle-loop"\n'
+            f'diameter = "300 mm"\n[electrical]\ntarget = "14.1 MHz"\n{extra}\n')
+    with pytest.raises(DesignError, match=needle):
+        parse_design(text)
+
+
+def test_capacitor_joints_are_read():
+    text = ('[stock]\ncatalogue = "acr-1/4"\n[[element]]\nshape = "circle-loop"\n'
+            'diameter = "300 mm"\n[element.capacitor]\njoint_resistance = "2 mohm"\njoints = 3\n')
+    cap = parse_design(text).elements[0].capacitor
+    assert cap.joint_resistance_ohm == pytest.approx(0.002) and cap.joints == 3
+    with pytest.raises(DesignError, match="joint_resistance"):
+        parse_design(text.replace('joint_resistance = "2 mohm"\n', ""))

@@ -131,3 +131,16 @@ def test_scaling_every_dimension_scales_every_length(side, spacing, gap, d, fact
         assert sb.start_mm == pytest.approx(sa.start_mm * factor)
         assert sb.end_mm == pytest.approx(sa.end_mm * factor)
     assert b.closure_error() == pytest.approx(0.0, abs=1e-6 * factor * side)
+
+
+def test_end_frame_is_where_the_next_piece_starts():
+    # a bend after the frame turns towards the normal: a straight, then a 90 degree bend of
+    # radius 5 to the left, ends 5 along y from the corner heading +y, its normal -x
+    # (towards the centre of the bend it came from)
+    p = BendPath((Straight(10.0), Bend(5.0, 90.0)))
+    pos, t, n = p.end_frame()
+    assert pos == pytest.approx([15.0, 5.0, 0.0])
+    assert t == pytest.approx([0.0, 1.0, 0.0], abs=1e-12)
+    assert n == pytest.approx([-1.0, 0.0, 0.0], abs=1e-12)
+    longer = BendPath((Straight(10.0), Bend(5.0, 90.0), Bend(5.0, 90.0)))
+    assert longer.end_point() == pytest.approx(pos + 5.0 * t + 5.0 * n)
