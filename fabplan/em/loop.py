@@ -130,11 +130,12 @@ def loop_figures(elements: Sequence[ElectricalInput], settings: ElectricalSettin
         rho = c.resistivity_ohm_m
         r_cond_f = 0.0 if rho is None else skin_loss_ohm(perimeter, d, f_hz, rho)
         top = settings.band_hz[1] if settings.band_hz is not None else f_hz
-        try:
-            findings += small_loop_findings(geom, max(top, f_hz), rho or 1.72e-8, c.tube_wall_mm,
-                                            e.name)
-        except FabplanError:
-            pass
+        if rho is not None:
+            try:
+                findings += small_loop_findings(geom, max(top, f_hz), rho, c.tube_wall_mm,
+                                                e.name)
+            except FabplanError:
+                pass
     else:
         notes.append(f"the circumference is {c_wl:.3f} wavelength: the small-loop formulas "
                      f"(below {SMALL_LOOP_MAX_WL} wavelength) do not apply; the model's figures "

@@ -135,7 +135,8 @@ def read(sec: Section) -> Params:
         d = design_qfh(f_hz, conductor_diameter_mm=1.0, size_ratio=ratio,
                        q_loop=DEFAULT_Q_LOOP if default_q else q, loop_length_wl=wl,
                        diameter_to_height=dh, turns=turns, handedness=hand)
-        basis = d.basis + (f" (default loop Q {DEFAULT_Q_LOOP:g})" if default_q else "")
+        basis = d.basis + ("; that Q is the default, from fabplan's model of one loop"
+                           if default_q else "")
         return Params(d.large.diameter_mm, d.large.height_mm, d.small.diameter_mm,
                       d.small.height_mm, turns, hand, corner, gap, mast, offset, mast_length,
                       f_hz, wl, basis)
@@ -158,9 +159,11 @@ def corner_radius_of(p: Params, d: float) -> float:
 
 def small_azimuth_deg(p: Params) -> float:
     """The small loop's top radial's azimuth (deg): 90 degrees from the large loop's,
-    on the side that puts the beam up (towards the feed end) with the small loop's
-    current leading: clockwise (-90) for a right-hand winding, +90 for left (the
-    mirror image). Checked by the electrical model in the tests."""
+    on the side that puts the beam up (towards the feed end, backfire) with the small
+    loop's current leading: counter-clockwise (+90) for a right-hand winding, -90 for
+    left (the mirror image); the other side fires the beam down. In the model a
+    right-hand winding so fed radiates left-hand circular polarisation upwards and a
+    left-hand winding right-hand (tests/em/test_helix.py)."""
     return 90.0 if p.handedness == "right" else -90.0
 
 
