@@ -103,6 +103,6 @@ def test_capacitance_and_voltage_for_people():
 
     assert format_capacitance(47.5e-12) == "47.5 pF"
     assert format_capacitance(1.2e-9) == "1.20 nF"
-    assert format_capacitance(2.2e-6) == "2.2 uF"
+    assert format_capacitance(2.2e-6) == "2.20 uF"
     assert format_voltage(850.0) == "850 V"
     assert format_voltage(6128.8) == "6.13 kV"

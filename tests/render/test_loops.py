@@ -88,3 +88,42 @@ def test_helix_sheet_says_where_to_drill(example_builds, qfh_example_plan):
     for hole in qfh_example_plan.drilling[0].holes:
         row = f"{hole.label} {hole.from_datum_mm:.1f} mm"
         assert row in text, row
+
+
+def test_mast_wrap_template_measured(example_builds, qfh_example_plan):
+    # source: pdfplumber reads the wrap-around template back in points (1 pt = 25.4/72 mm):
+    # every hole a solid circle of its drill diameter; the large loop's on the alignment
+    # line (0 deg), the small loop's a quarter of the circumference round from it
+    # (pi D x 90 / 360); the two top holes at one distance from the datum, the two bottom
+    # holes their loops' heights apart; within 0.1 mm
+    import math
+
+    import pdfplumber
+
+    pt = 72 / 25.4
+    _, folder = example_builds["qfh"]
+    (mast,) = qfh_example_plan.drilling
+    found = []
+    with pdfplumber.open(folder / "drilling-1to1.pdf") as doc:
+        for page in doc.pages:
+            align = [ln for ln in page.lines if abs(ln["y0"] - ln["y1"]) < 1e-6
+                     and abs(ln["linewidth"] - 0.5) < 1e-6 and ln["x1"] - ln["x0"] > 100 * pt]
+            solid = [c for c in page.curves if not c["dash"] or not c["dash"][0]]
+            for c in solid:
+                d = (c["x1"] - c["x0"]) / pt
+                if abs(d - mast.holes[0].diameter_mm) < 0.1:
+                    y = (c["top"] + c["bottom"]) / 2
+                    found.append((page.page_number, (c["x0"] + c["x1"]) / 2 / pt,
+                                  (align[0]["top"] - y) / pt))
+    assert len(found) == 4
+    quarter = math.pi * mast.outside_mm / 4
+    offsets = sorted(round(off, 1) for _, _, off in found)
+    assert offsets == pytest.approx([0.0, 0.0, quarter, quarter], abs=0.1)
+    by_page: dict[int, list[float]] = {}
+    for page, x, _ in found:
+        by_page.setdefault(page, []).append(x)
+    first, last = min(by_page), max(by_page)
+    assert abs(by_page[first][0] - by_page[first][1]) < 0.1  # both top holes at 64 mm
+    bottoms = sorted(h.from_datum_mm for h in mast.holes if h.label.endswith("bottom"))
+    assert abs(by_page[last][0] - by_page[last][1]) == pytest.approx(bottoms[1] - bottoms[0],
+                                                                     abs=0.1)
