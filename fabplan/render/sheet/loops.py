@@ -12,7 +12,7 @@ from typing import Any
 
 from ...em.records import LoopFigures, StructureElectrical
 from ...geometry.shapes.quadrifilar import Params as QfhParams
-from ...units import format_capacitance, format_frequency, format_voltage
+from ...units import format_capacitance, format_frequency, format_number, format_voltage
 from ..loops import RATING_MARGIN, mast_of
 from .context import Context
 
@@ -155,7 +155,8 @@ def _helix(ctx: Context, e: Any, st: StructureElectrical | None) -> list[Any]:
         text = (f"The model at {format_frequency(ff.f_hz)}: towards the zenith "
                 f"{ff.gain_zenith_dbi:.1f} dBi, {ff.polarisation_zenith}-hand circular "
                 f"(axial ratio {ff.axial_ratio_zenith_db or 0:.1f} dB); at "
-                f"{ff.low_elevation_deg or 0:g} degrees elevation {ff.gain_low_dbi or 0:.1f} dBi")
+                f"{ff.low_elevation_deg or 0:g} degrees elevation "
+                f"{format_number(ff.gain_low_dbi or 0.0, 1)} dBi")
         if h is not None:
             text += (f"; the {h.loops[1]}'s current leads the {h.loops[0]}'s by "
                      f"{h.phase_deg:.0f} degrees (90 wanted)")
