@@ -28,6 +28,7 @@ from .design.beam import boom_modelled
 from .design.forming import FormingSettings
 from .design.jig import JigSettings
 from .design.model import Design, ElementSpec, StockSpec
+from .drilling.mast import qfh_mast
 from .drilling.records import DrillPattern
 from .em.build import ElectricalInput
 from .em.records import ElementElectrical, PlanElectrical
@@ -39,7 +40,7 @@ from .forming.ends import resolve_ends
 from .forming.records import ElementForming
 from .forming.stage import StockModel, form_piece, stock_model
 from .geometry.placement import Placement
-from .geometry.shapes import SHAPES, straight
+from .geometry.shapes import SHAPES, quadrifilar, straight
 from .geometry.shapes.base import ElementGeometry
 from .jig.records import JigLayout, JigPiece
 from .jig.stage import layout_jig
@@ -226,7 +227,23 @@ def make_plan(design: Design) -> Plan:
                          beam.mounts))
     drilling = (beam.boom.drilling,) if beam.boom is not None and beam.boom.drilling.holes else ()
     return Plan(design, stock_summary(design.stock), elements, tuple(findings), est.order, jig,
-                plan_electrical, drilling, beam.boom)
+                plan_electrical, drilling + _masts(design, specs), beam.boom)
+
+
+def _masts(design: Design, specs: list[ElementSpec]) -> tuple[DrillPattern, ...]:
+    """The drilling pattern of each quadrifilar helix's mast (given a mast diameter)."""
+    out = []
+    for spec in specs:
+        if isinstance(spec.params, quadrifilar.Params):
+            m = quadrifilar.mast_inputs(spec.params,
+                                        design.stock_of(spec).profile.outer_diameter_mm)
+            if m is not None:
+                out.append(qfh_mast(spec.name, m.design, m.mast_diameter_mm,
+                                    conductor_diameter_mm=m.conductor_diameter_mm,
+                                    small_azimuth_deg=m.small_azimuth_deg,
+                                    small_top_offset_mm=m.small_top_offset_mm,
+                                    length_mm=m.mast_length_mm))
+    return tuple(out)
 
 
 def electrical_not_run(specs: Sequence[ElementSpec],

@@ -119,7 +119,7 @@ def fed_element(plan: Plan, name: str | None) -> ElementPlan:
             raise DesignError("has no feed gap: only fed elements have an impedance to tune",
                               field="--element", value=name)
         return element
-    fed = [e for e in plan.elements if e.feed_gap_mm is not None]
+    fed = [e for e in plan.elements if e.feed_gap_mm is not None and e.spec.capacitor is None]
     if not fed:
         raise DesignError("no element has a feed gap: nothing to tune", field="element")
     if len(fed) > 1:
@@ -172,6 +172,12 @@ class _Evaluator:
         index = plan.elements.index(element)
         group = next(g for g in groups(inputs) if index in g)
         self.group: list[ElectricalInput] = [inputs[i] for i in group]
+        tuned = [e.name for e in self.group
+                 if e.spec.capacitor is not None and e.spec.capacitor.capacitance_f is None]
+        if tuned:
+            raise DesignError(f"{tuned[0]!r} has a capacitor solved for resonance at the target: "
+                              "the capacitor tunes it, no length does (for the match, resize or "
+                              "move the coupling loop)", field="--element", value=element.name)
         self.input: ElectricalInput = inputs[index]
 
     def __call__(self, value_mm: float, expect_hz: float, span_frac: float = BRACKET_FRAC,

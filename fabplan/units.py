@@ -31,7 +31,7 @@ __all__ = [
     "parse_currency", "format_inches", "format_mm", "format_length", "format_signed_length",
     "format_frequency", "format_money", "format_weight", "format_number", "format_angle",
     "format_drawing_length", "wrap_words", "parse_capacitance", "parse_resistance",
-    "parse_voltage",
+    "parse_voltage", "format_capacitance", "format_voltage",
 ]
 
 MM = 1.0
@@ -284,6 +284,13 @@ def format_frequency(hz: float) -> str:
     if hz >= 1e3:
         return f"{hz / 1e3:.2f} kHz"
     return f"{hz:.1f} Hz"
+
+
+def format_voltage(volt: float) -> str:
+    """`850 V`, `6.13 kV` style (V in)."""
+    if abs(volt) >= 1000:
+        return f"{volt / 1000:.2f} kV"
+    return f"{volt:.0f} V"
 
 
 def format_signed_length(mm: float, primary: LengthUnit = "in", denominator: int = 32) -> str:

@@ -189,6 +189,44 @@ def em_wires():
     return _EmWires
 
 
+LOOP_EXAMPLE = ROOT / "examples" / "portable-20m-loop.toml"
+QFH_EXAMPLE = ROOT / "examples" / "weather-satellite-qfh.toml"
+
+
+@pytest.fixture(scope="session")
+def loop_example_plan():
+    """The capacitor-tuned loop example's Plan, made once per session (read only)."""
+    from fabplan.design.read import load_design
+    from fabplan.plan import make_plan
+
+    return make_plan(load_design(LOOP_EXAMPLE))
+
+
+@pytest.fixture(scope="session")
+def qfh_example_plan():
+    """The quadrifilar helix example's Plan, made once per session (read only)."""
+    from fabplan.design.read import load_design
+    from fabplan.plan import make_plan
+
+    return make_plan(load_design(QFH_EXAMPLE))
+
+
+@pytest.fixture(scope="session")
+def example_builds(tmp_path_factory):
+    """`fabplan build` of the loop and the helix examples, once per session: {name: (the
+    completed process, the output folder)}."""
+    out = {}
+    for name, path in (("loop", LOOP_EXAMPLE), ("qfh", QFH_EXAMPLE)):
+        folder = tmp_path_factory.mktemp(f"build-{name}") / "out"
+        env = dict(os.environ)
+        env.pop("PYTHONWARNINGS", None)
+        proc = subprocess.run([sys.executable, "-m", "fabplan", "build", str(path), "-o",
+                               str(folder)], capture_output=True, text=True, cwd=ROOT, env=env,
+                              timeout=300)
+        out[name] = (proc, folder)
+    return out
+
+
 @pytest.fixture(scope="session")
 def example_plan():
     """The bundled example's Plan, made once per test session (read only)."""

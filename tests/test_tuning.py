@@ -306,3 +306,15 @@ def test_measured_far_from_the_model_prefers_the_proportional_rule():
     r = tuning.from_measurement(plan, e, d.electrical, model_f * 1.06, 146e6,
                                 factory=rlc_factory)
     assert r.trust == "proportional" and "differs from the model" in r.advice
+
+
+def test_a_capacitor_tuned_loop_is_not_tuned_by_length(loop_example_plan):
+    # the loop's capacitor is solved for resonance at the target: tune has no length to
+    # change, and the coupling loop (not the capacitor's loop) is the fed element
+    from fabplan.errors import FabplanError
+
+    plan = loop_example_plan
+    element = tuning.fed_element(plan, None)
+    assert element.name == "coupling loop"
+    with pytest.raises(FabplanError, match="capacitor tunes it"):
+        tuning.tune(plan, element, plan.design.electrical, 14.2e6)

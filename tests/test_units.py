@@ -175,3 +175,13 @@ def test_mass_and_power_are_bounded():
     assert parse_power("1.5 kW", "electrical.power") == 1500.0
     with pytest.raises(DesignError, match="at most 1 MW"):
         parse_power("1e30 kW", "electrical.power")
+
+
+def test_capacitance_and_voltage_for_people():
+    from fabplan.units import format_capacitance, format_voltage
+
+    assert format_capacitance(47.5e-12) == "47.5 pF"
+    assert format_capacitance(1.2e-9) == "1.20 nF"
+    assert format_capacitance(2.2e-6) == "2.20 uF"
+    assert format_voltage(850.0) == "850 V"
+    assert format_voltage(6128.8) == "6.13 kV"

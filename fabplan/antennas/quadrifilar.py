@@ -332,12 +332,12 @@ class MastDrilling:
 
 def mast_drilling(design: QfhDesign, mast_diameter_mm: float, *,
                   top_azimuth_deg: float = 0.0, small_top_offset_mm: float = 0.0,
-                  marks_per_arm: int = 1) -> MastDrilling:
+                  marks_per_arm: int = 1, small_turn_deg: float = 90.0) -> MastDrilling:
     """The mast's holes and arm marks for `design`.
 
     The large loop's top radial lies at `top_azimuth_deg` and +180, the small
-    loop's 90 degrees on (their top radials at the datum, the small loop's
-    `small_top_offset_mm` lower if the feed needs room); each bottom radial
+    loop's `small_turn_deg` on (90 or -90; their top radials at the datum, the small
+    loop's `small_top_offset_mm` lower if the feed needs room); each bottom radial
     passes through the mast at its loop's height, turned by the arm's twist.
     `marks_per_arm` marks evenly spaced down each arm (1: at mid-height, where
     handedness shows: a right-handed half-turn arm is 90 degrees clockwise of its
@@ -354,6 +354,9 @@ def mast_drilling(design: QfhDesign, mast_diameter_mm: float, *,
     if marks_per_arm < 0 or marks_per_arm > 16:
         raise DesignError("between 0 and 16 marks per arm", field="marks_per_arm",
                           value=marks_per_arm)
+    if small_turn_deg not in (90.0, -90.0):
+        raise DesignError("the small loop lies 90 degrees either way from the large",
+                          field="small_turn_deg", value=small_turn_deg)
     radius = mast_diameter_mm / 2
 
     def arc(az: float) -> float:
@@ -362,7 +365,8 @@ def mast_drilling(design: QfhDesign, mast_diameter_mm: float, *,
     holes: list[MastHole] = []
     marks: list[ArmMark] = []
     for loop, az0, z0 in ((design.large, top_azimuth_deg % 360.0, 0.0),
-                          (design.small, (top_azimuth_deg + 90.0) % 360.0, small_top_offset_mm)):
+                          (design.small, (top_azimuth_deg + small_turn_deg) % 360.0,
+                           small_top_offset_mm)):
         for arm, start in enumerate((az0, (az0 + 180.0) % 360.0)):
             holes.append(MastHole(loop.name, "top", z0, start, arc(start), False))
             for i in range(1, marks_per_arm + 1):

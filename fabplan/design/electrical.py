@@ -11,6 +11,7 @@ ground = "free-space"                # or "perfect" with ground_height
 # resistivity = 1.72e-8              # ohm m, overrides the stock material's
 # perfect_conductor = true           # no conductor loss
 # power = "50 W"                     # transmitter power, for the RF exposure caution
+# band = { from = "14.0 MHz", to = "14.35 MHz" }   # a tuned loop: the range it must cover
 
 [electrical.matching]
 kind = "coax-balun"                  # "none", "transformer" or "coax-balun"
@@ -75,6 +76,7 @@ class ElectricalSettings:
     resistivity_ohm_m: float | None = None  # override of the material's
     perfect_conductor: bool = False
     power_w: float | None = None
+    band_hz: tuple[float, float] | None = None  # a capacitor-tuned loop must cover this
 
     @property
     def reference_ohm(self) -> float:
@@ -230,7 +232,23 @@ def read_electrical(top: Section) -> ElectricalSettings | None:
                           field=sec.field("resistivity"))
     power = sec.raw("power", None)
     power_w = None if power is None else parse_power(power, sec.field("power"))
+    band = _read_band(sec.table("band", None))
     sec.finish()
     chain = MatchChain(reference, system, matching, feed)
     return ElectricalSettings(target, lo, hi, step, chain, tune_for, ground, height, rho, perfect,
-                              power_w)
+                              power_w, band)
+
+
+def _read_band(sec: Section | None) -> tuple[float, float] | None:
+    """`band = { from, to }`: the frequencies a capacitor-tuned loop must cover (Hz)."""
+    if sec is None:
+        return None
+    lo, hi = sec.frequency("from"), sec.frequency("to")
+    sec.finish()
+    if hi <= lo:
+        raise DesignError(f"'to' ({hi / 1e6:g} MHz) must be above 'from' ({lo / 1e6:g} MHz)",
+                          field=sec.path)
+    if hi > 2 * lo:
+        raise DesignError("a tuned loop covers at most an octave: split the band",
+                          field=sec.path, value=f"{lo / 1e6:g}-{hi / 1e6:g} MHz")
+    return lo, hi

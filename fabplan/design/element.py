@@ -14,6 +14,8 @@
     capacitance = "120 pF"       # omit it to have the electrical check solve the value
     q = 2000                     # the capacitor's Q, or esr = "0.02 ohm"
     rating = "6 kV"              # its peak voltage rating (a finding when exceeded)
+    joint_resistance = "1 mohm"  # each soldered or clamped joint in the loop's path
+    joints = 2                   # how many (default: the capacitor's 2, and 2 per fitting)
 
 Elements with a placement are modelled together as one antenna by the electrical
 check; an element without one is modelled alone, in its own frame. Lengths in mm,
@@ -99,8 +101,14 @@ def _read_capacitor(sec: Section) -> CapacitorSpec:
         raise DesignError("give the capacitor's q or its esr, not both", field=sec.field("esr"))
     rating = None if not sec.has("rating") else parse_voltage(sec.raw("rating"),
                                                               sec.field("rating"))
+    joint = None if not sec.has("joint_resistance") else parse_resistance(
+        sec.raw("joint_resistance"), sec.field("joint_resistance"))
+    joints = sec.integer("joints", None, low=0, high=1000)
+    if joints is not None and joint is None:
+        raise DesignError("joints counts the joints of joint_resistance: give that too",
+                          field=sec.field("joints"), value=joints)
     sec.finish()
-    return CapacitorSpec(c_f, q, esr, rating)
+    return CapacitorSpec(c_f, q, esr, rating, joint, joints)
 
 
 def read_element_extras(sec: Section, read_stock: Callable[[Section], StockSpec]

@@ -70,12 +70,16 @@ class Shop:
 class CapacitorSpec:
     """A capacitor across an element's gap instead of a feed: a fixed value (F), or
     None to have the electrical check solve the value that resonates the antenna at
-    the target; its loss as a Q or an ESR (ohm); its voltage rating (V, peak)."""
+    the target; its loss as a Q or an ESR (ohm); its voltage rating (V, peak); the
+    resistance of each joint in the loop's current path (ohm) and how many there are
+    (None: the capacitor's two connections and two per fitting)."""
 
     capacitance_f: float | None = None
     q: float | None = None
     esr_ohm: float | None = None
     rating_v: float | None = None
+    joint_resistance_ohm: float | None = None
+    joints: int | None = None
 
 
 @dataclass(frozen=True)

@@ -36,7 +36,7 @@ from ..lengths.records import PieceCore
 from .structure import Gap, Load, Placement, Port, Structure, TunedCapacitor, Wire, WireEnd
 
 __all__ = ["ElectricalInput", "Conductor", "conductor", "released_paths", "groups",
-           "build_structure", "FEED_GROUP"]
+           "build_structure", "FEED_GROUP", "joint_count", "joint_resistance_ohm"]
 
 FEED_GROUP = "feed"  # the ports of one structure are fed in parallel, as one group
 
@@ -182,7 +182,7 @@ def build_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
     wires: list[Wire] = []
     owners: list[str] = []
     gaps: list[Gap] = []
-    n_ports = sum(e.fed for e in elements)
+    n_ports = sum(1 for e in elements if e.fed for g in e.geometry.gaps if g.role == "feed")
     group = FEED_GROUP if n_ports > 1 else None
     feed_name = next((e.name for e in elements if e.fed), None)
     for e in elements:
@@ -200,7 +200,9 @@ def build_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
         for n, g in enumerate(geometry.gaps):
             ends = (WireEnd(base + g.a.piece, g.a.end), WireEnd(base + g.b.piece, g.b.end))
             element: Port | Load | TunedCapacitor
-            if g.role == "feed" and e.spec.capacitor is None:
+            if g.role == "joint":  # a fitting: conductor (its resistance is the joints')
+                element = Load(f"{e.name} joint {n + 1}", "series")
+            elif g.role == "feed" and e.spec.capacitor is None:
                 element = Port(e.name if n == 0 else f"{e.name} {n + 1}", group=group)
             else:
                 element = _capacitor(e, settings, feed_name)
@@ -232,8 +234,10 @@ def _capacitor(e: ElectricalInput, settings: ElectricalSettings,
     name = f"{e.name} capacitor"
     if cap is None:
         return Load(name, "series")  # a gap that is not the feed and has no part: shorted
+    joints = joint_resistance_ohm(e)
     if cap.capacitance_f is not None:
-        return Load(name, "series", c_f=cap.capacitance_f, q=cap.q, esr_ohm=cap.esr_ohm)
+        return Load(name, "series", r_ohm=joints or None, c_f=cap.capacitance_f, q=cap.q,
+                    esr_ohm=cap.esr_ohm)
     if settings.target_hz is None:
         raise DesignError("a capacitor solved for resonance needs [electrical] target; or give "
                           "its capacitance", field=f"element {e.name!r}.capacitor")
@@ -241,7 +245,24 @@ def _capacitor(e: ElectricalInput, settings: ElectricalSettings,
         raise DesignError("a capacitor solved for resonance needs a fed element modelled with "
                           "it (e.g. a coupling loop placed beside the loop)",
                           field=f"element {e.name!r}.capacitor")
-    return TunedCapacitor(settings.target_hz, feed_name, name, cap.q, cap.esr_ohm)
+    return TunedCapacitor(settings.target_hz, feed_name, name, cap.q, cap.esr_ohm, joints)
+
+
+def joint_count(e: ElectricalInput) -> int:
+    """The joints in a capacitor loop's current path: as the design says, or the
+    capacitor's two connections and two per fitting (a joint gap)."""
+    cap = e.spec.capacitor
+    if cap is not None and cap.joints is not None:
+        return cap.joints
+    return 2 + 2 * sum(1 for g in e.geometry.gaps if g.role == "joint")
+
+
+def joint_resistance_ohm(e: ElectricalInput) -> float:
+    """The joints' total resistance in series with the loop (ohm): per joint times count."""
+    cap = e.spec.capacitor
+    if cap is None or not cap.joint_resistance_ohm:
+        return 0.0
+    return cap.joint_resistance_ohm * joint_count(e)
 
 
 def gap_points(structure: Structure) -> tuple[list[tuple[float, float, float]],

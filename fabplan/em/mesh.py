@@ -118,16 +118,18 @@ class StructureMesh:
 
 
 # -- pieces ----------------------------------------------------------------------------------
-def arc_polygon(arc: Arc3, n: int) -> np.ndarray:
+def arc_polygon(arc: Arc3, n: int, fractions: np.ndarray | None = None) -> np.ndarray:
     """(n+1, 3) nodes on `arc` whose polygon length equals the arc length (mm).
 
     The end nodes are the arc's ends; the interior nodes sit at the equal-angle
-    positions, pushed radially (perpendicular to the axis) to a common radius.
+    positions (or at `fractions` of the arc's angle, increasing from 0 to 1, for a
+    graded helix), pushed radially (perpendicular to the axis) to a common radius.
     """
-    if n < 2 or arc.angle / n > math.pi / 2 + 1e-12:
+    phi = (np.linspace(0.0, arc.angle, n + 1) if fractions is None
+           else arc.angle * np.asarray(fractions, float))
+    if n < 2 or len(phi) != n + 1 or float(np.max(np.diff(phi))) > math.pi / 2 + 1e-12:
         raise FabplanError("an arc needs at least two segments and at most 90 degrees per "
                            "segment", field="segments", value=n)
-    phi = np.linspace(0.0, arc.angle, n + 1)
     centre = np.asarray(arc.centre)
     u, v, ax = np.asarray(arc.u), np.asarray(arc.v), np.asarray(arc.axis)
     radial = np.cos(phi)[:, None] * u + np.sin(phi)[:, None] * v
@@ -201,6 +203,7 @@ class _Piece:
     plateau: float = math.inf  # the field's ceiling over the piece
     tiny: bool = False
     grid: np.ndarray = field(default_factory=lambda: np.zeros(0))
+    graded: bool = False  # a helix's quarter turn: its segments follow the field
 
     @property
     def length(self) -> float:
@@ -309,8 +312,11 @@ def _plan_wire(index: int, topo: Topology, h: float, min_seg_per_180: int,
                 part = _split_primitive(line.prims[k], float(line.starts[k]), float(lo),
                                         float(hi))
                 if isinstance(part, Arc3):
-                    pieces.append(_arc_piece(part, float(lo), float(hi), min_len,
-                                             min_seg_per_180))
+                    piece = _arc_piece(part, float(lo), float(hi), min_len, min_seg_per_180)
+                    if part.pitch and not piece.tiny:  # graded like a straight
+                        piece.graded = True
+                        piece.n_min = _arc_count(part, min_seg_per_180)
+                    pieces.append(piece)
             continue
         if isinstance(prim, Arc3):
             pieces.append(_arc_piece(prim, a, b, min_len, min_seg_per_180))
@@ -372,14 +378,14 @@ def _size_wires(plans: list[_WirePlan], h: float) -> dict[int, float]:
             junction[n] = h
         for p in plan.pieces:
             p.grid = np.linspace(p.s0, p.s1, _GRID + 1)
-            if isinstance(p.prim, Arc3) and not p.tiny:
+            if isinstance(p.prim, Arc3) and not p.tiny and not p.graded:
                 p.plateau = max(plan.floor, min(h, p.plateau))
     for _ in range(500):
         changed = False
         for plan in plans:
             ring = plan.line.length if plan.line.closed else None
             for k, p in enumerate(plan.pieces):
-                if isinstance(p.prim, Arc3) and not p.tiny:
+                if isinstance(p.prim, Arc3) and not p.tiny and not p.graded:
                     others = _seeds(plan, h, junction, k, ARC_ALLOWANCE)
                     low = float(_field(p.grid, others, h, plan.floor, ring).min())
                     if low < p.plateau * (1 - 1e-12):
@@ -406,6 +412,8 @@ def _wire_nodes(plan: _WirePlan, h: float, min_seg_per_180: int, junction: dict[
     for k, p in enumerate(plan.pieces):
         if p.prim is None or p.tiny:
             s = np.array([p.s0, p.s1])
+        elif isinstance(p.prim, Arc3) and p.graded:
+            s = _spread(p.grid, _field(p.grid, seeds, h, plan.floor, ring), p.n_min)
         elif isinstance(p.prim, Arc3):
             n = max(1, math.ceil(p.length / p.plateau - 1e-9))
             want = _arc_count(p.prim, min_seg_per_180)
@@ -417,7 +425,7 @@ def _wire_nodes(plan: _WirePlan, h: float, min_seg_per_180: int, junction: dict[
         else:
             s = _spread(p.grid, _field(p.grid, seeds, h, plan.floor, ring), p.n_min)
         if isinstance(p.prim, Arc3) and len(s) > 2:
-            q = arc_polygon(p.prim, len(s) - 1)
+            q = arc_polygon(p.prim, len(s) - 1, (s - p.s0) / p.length if p.graded else None)
         elif isinstance(p.prim, Line3):
             a, b = np.asarray(p.prim.start), np.asarray(p.prim.end)
             q = a + (b - a) * ((s - p.s0) / p.length)[:, None]

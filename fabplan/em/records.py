@@ -10,7 +10,8 @@ from dataclasses import dataclass, field
 from ..measure.analysis import Band
 
 __all__ = ["SweepResult", "ElementElectrical", "PlanElectrical", "UNCERTAINTY_FRAC", "PatternCut",
-           "FarFieldFigures", "BandFigures", "LoadFigures", "WirePicture", "StructureElectrical"]
+           "FarFieldFigures", "BandFigures", "LoadFigures", "WirePicture", "StructureElectrical",
+           "LoopBandPoint", "LoopFigures", "HelixFigures"]
 
 # the stated uncertainty of a predicted frequency: about +-0.5 %, dominated by the
 # terminal and feed geometry (how the feed gap and its connections are really made)
@@ -106,6 +107,14 @@ class FarFieldFigures:
     power_balance_error: float  # (P_in - P_loss - P_rad) / P_in
     azimuth: PatternCut
     elevation: PatternCut
+    # a circularly polarised antenna (a helix, axial ratio <= 10 dB): the gain towards
+    # the zenith (+z), and at `low_elevation_deg` above the horizon averaged over the
+    # azimuth (dBi); the axial ratio (dB) and sense towards the zenith
+    gain_zenith_dbi: float | None = None
+    gain_low_dbi: float | None = None
+    low_elevation_deg: float | None = None
+    axial_ratio_zenith_db: float | None = None
+    polarisation_zenith: str | None = None
 
 
 @dataclass(frozen=True)
@@ -172,3 +181,85 @@ class StructureElectrical:
     load_points_mm: tuple[tuple[float, float, float], ...]
     ground_z_mm: float | None
     solves: int  # full solves the sweep needed (rational fit)
+    loop: LoopFigures | None = None  # a capacitor-tuned loop (fabplan.em.loop)
+    helix: HelixFigures | None = None  # two loops fed in parallel (a quadrifilar helix)
+
+
+@dataclass(frozen=True)
+class LoopBandPoint:
+    """A capacitor-tuned loop retuned to `f_hz` (the model solves the capacitor for
+    X = 0 at the feed there): the capacitance (F), the capacitor's RMS and peak
+    voltage (V) and current (A RMS) at the design power, the efficiency, the feed's
+    impedance (ohm) and SWR through the matching."""
+
+    f_hz: float
+    capacitance_f: float
+    capacitor_v_rms: float
+    capacitor_v_peak: float
+    current_a_rms: float
+    efficiency: float
+    feed_z_ohm: complex
+    swr: float
+
+
+@dataclass(frozen=True)
+class LoopFigures:
+    """A small transmitting loop tuned by a capacitor, at the design frequency and
+    power: the published small-loop formulas (`*_formula_*`, None where the loop is
+    not small enough for them) beside the method-of-moments model (`*_model_*`: the
+    loop alone, its gap driven), the losses referred to the loop current (ohm), the
+    tuning, Q and bandwidth of the assembled antenna, the capacitor's range across
+    `[electrical] band`, its voltage and current, and the coupling loop's check.
+    H, ohm, F, V, A, Hz, mm."""
+
+    element: str  # the loop with the capacitor
+    coupling: tuple[str, ...]  # the fed elements (the coupling loop)
+    f_hz: float
+    power_w: float
+    circumference_wl: float
+    inductance_model_h: float  # X / omega of the loop alone (self-capacitance included)
+    inductance_formula_h: float | None  # Grover: ring or polygon
+    radiation_resistance_model_ohm: float
+    radiation_resistance_formula_ohm: float | None  # Balanis: 320 pi^4 (A / lambda^2)^2
+    conductor_loss_model_ohm: float
+    conductor_loss_formula_ohm: float | None  # skin effect: R_s l / (pi d)
+    joint_loss_ohm: float
+    joints: int
+    capacitor_loss_ohm: float
+    total_resistance_ohm: float  # everything the input power goes to, per capacitor current
+    efficiency: float  # radiated / input power, the assembled antenna (model)
+    efficiency_formula: float | None
+    reactance_ohm: float  # the capacitor's reactance at resonance
+    q_unloaded: float
+    q_loaded: float  # matched: half the unloaded Q
+    bandwidth_hz: float  # half-power bandwidth when matched: f / q_loaded
+    bandwidth_swr2_hz: float  # SWR 2 bandwidth when matched (Yaghjian & Best)
+    capacitance_f: float  # at the design frequency: solved, or the design's
+    solved: bool
+    capacitance_formula_f: float | None  # 1 / (omega^2 L) with Grover's L
+    capacitance_range_f: tuple[float, float] | None  # across [electrical] band
+    band: tuple[LoopBandPoint, ...]
+    capacitor_v_rms: float
+    capacitor_v_peak: float
+    current_a_rms: float
+    capacitor_v_peak_max: float  # the worst at the design frequency and across the band
+    capacitor_v_peak_max_hz: float
+    rating_v: float | None
+    coupling_rule_diameter_mm: float
+    coupling_rule_basis: str
+    coupling_diameter_mm: float | None  # as drawn (equal-perimeter circle)
+    feed_z_ohm: complex
+    feed_swr: float  # at the design frequency, through the matching
+    notes: tuple[str, ...] = ()
+
+
+@dataclass(frozen=True)
+class HelixFigures:
+    """Two loops fed in parallel (a quadrifilar helix) at the design frequency and
+    power: each loop's gap current (A RMS) and the phase by which the second
+    (small) loop's current leads the first's (deg; self-phasing wants +90)."""
+
+    element: str
+    loops: tuple[str, str]
+    current_a_rms: tuple[float, float]
+    phase_deg: float

@@ -39,7 +39,7 @@ from __future__ import annotations
 
 import logging
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
 from typing import TYPE_CHECKING, Any, Literal
 
@@ -893,14 +893,30 @@ class WireModel:
             self._capacitance = self._solve_capacitance()
         return self._capacitance
 
-    def _solve_capacitance(self) -> float:
+    def tuning_capacitance(self, f_hz: float) -> float:
+        """The tuning capacitor's value (F) that would put the target port (or group) at
+        X = 0 at `f_hz` (Hz) instead of at its own frequency (a loop tuned across a band)."""
+        return self._solve_capacitance(float(f_hz))
+
+    def solve_tuned(self, f_hz: float) -> Solution:
+        """Solve at `f_hz` (Hz) with the tuning capacitor re-solved for X = 0 there (its
+        value is the solution's `capacitance_f`); the model's own value is kept."""
+        c = self.tuning_capacitance(f_hz)
+        own = self._capacitance
+        self._capacitance = c
+        try:
+            return self.solve(f_hz)
+        finally:
+            self._capacitance = own
+
+    def _solve_capacitance(self, at_hz: float | None = None) -> float:
         """The tuning capacitor's value: with the other ports driven as given, the target
-        port (or group) sees X = 0 at the capacitor's frequency. The capacitor's gap is
-        treated as one more port: the admittances Y between the ports and that gap give the
-        target's admittance as a bilinear function of the capacitor's impedance z, and X = 0
-        is a quadratic in its reactance."""
+        port (or group) sees X = 0 at the capacitor's frequency (or `at_hz`). The
+        capacitor's gap is treated as one more port: the admittances Y between the ports
+        and that gap give the target's admittance as a bilinear function of the
+        capacitor's impedance z, and X = 0 is a quadratic in its reactance."""
         (f, cap), = [(f, e) for f, e in self.loads if isinstance(e, TunedCapacitor)]
-        f_hz = cap.f_hz
+        f_hz = cap.f_hz if at_hz is None else at_hz
         self._check_frequency(f_hz)
         omega = 2 * math.pi * f_hz
         with _OneBlasThread():
@@ -923,7 +939,7 @@ class WireModel:
         beta = complex((w @ y[:n, n]) * (y[n, :n] @ v))
         gamma = complex(y[n, n])
         delta = alpha * gamma - beta
-        z0 = complex(cap.esr_ohm or 0.0)
+        z0 = complex((cap.esr_ohm or 0.0) + cap.r_ohm)
         z1 = complex(1.0 / cap.q, -1.0) if cap.q else complex(0.0, -1.0)
         a0, a1 = alpha + delta * z0, delta * z1
         b0, b1 = 1 + np.conj(gamma * z0), np.conj(gamma * z1)
@@ -933,15 +949,20 @@ class WireModel:
         roots = np.roots([c2, c1, c0]) if abs(c2) > 1e-300 else np.roots([c1, c0])
         good = [float(r.real) for r in np.atleast_1d(roots)
                 if abs(r.imag) <= 1e-9 * abs(r) and r.real > 0]
-        if not good:
-            raise FabplanError(f"no capacitance makes the reactance at {cap.port!r} zero at "
-                               f"{f_hz / 1e6:.6g} MHz: the structure needs inductance there, "
-                               "not capacitance", field=cap.name, value=f_hz)
 
         def admittance(xc: float) -> complex:
             zc = z0 + z1 * xc
             return alpha - beta * zc / (1 + gamma * zc)
 
+        if not good:
+            best = _least_phase(admittance)
+            log.debug("tuning capacitor %s: X = 0 is out of reach at %.6g MHz; set for the "
+                      "least phase angle at the port", cap.name, f_hz / 1e6)
+            if not math.isfinite(best):
+                raise FabplanError(f"no capacitance brings {cap.port!r} near resonance at "
+                                   f"{f_hz / 1e6:.6g} MHz", field=cap.name, value=f_hz)
+            c = 1.0 / (omega * best)
+            return c
         best = max(good, key=lambda xc: abs(admittance(xc)))
         c = 1.0 / (omega * best)
         log.debug("tuning capacitor %s: %.4g pF for X = 0 at %.6g MHz", cap.name, c * 1e12,
@@ -1036,6 +1057,27 @@ class WireModel:
 
 
 StructureModel = WireModel
+
+
+def _least_phase(admittance: Callable[[float], complex]) -> float:
+    """The capacitor reactance (ohm) that brings a port's admittance nearest the real axis
+    (the least |phase|) when no reactance makes it real: a weakly coupled tuned loop set
+    as close to resonance as it goes. A log grid from 1 milliohm to 1 megohm, refined by
+    Brent's bounded minimiser between the best point's neighbours."""
+    from ..numeric import minimize_bounded
+
+    grid = np.logspace(-3.0, 6.0, 451)
+
+    def cost(log_xc: float) -> float:
+        y = admittance(10.0 ** log_xc)
+        return abs(math.atan2(y.imag, y.real)) if y != 0 else math.pi
+
+    values = [cost(float(g)) for g in np.log10(grid)]
+    k = int(np.argmin(values))
+    lo = float(np.log10(grid[max(k - 1, 0)]))
+    hi = float(np.log10(grid[min(k + 1, len(grid) - 1)]))
+    x, _ = minimize_bounded(cost, lo, hi, xatol=1e-9)
+    return float(10.0 ** x)
 
 
 def _solve_upper(z: np.ndarray, rhs: np.ndarray) -> np.ndarray:

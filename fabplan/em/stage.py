@@ -28,6 +28,7 @@ from ..errors import FabplanError, Finding
 from ..feed import CoaxBalun
 from .build import ElectricalInput, build_structure, conductor, gap_points, groups, released_paths
 from .devices import Through, line_match
+from .loop import helix_figures, loop_cautions, loop_figures
 from .records import (
     UNCERTAINTY_FRAC,
     BandFigures,
@@ -52,6 +53,9 @@ DEFAULT_POWER_W = 100.0  # the near-field figures' power when the design gives n
 CUT_STEP_DEG = 2.0  # the pattern cuts' step
 FIT_RTOL = 1e-7  # the rational fit reproduces fresh solves to this (relative)
 POWER_BALANCE_TOL = 1e-2  # a larger gap between input and loss + radiated is a finding
+ELLIPTICAL_AR_DB = 6.0  # a larger axial ratio is reported as elliptical
+CIRCULAR_AR_DB = 10.0  # at most this: circularly polarised (zenith and low-angle gains given)
+LOW_ELEVATION_DEG = 10.0  # the low-elevation gain of a circularly polarised antenna
 
 # (the group's elements, settings, top frequency, other params by element name) -> model
 ModelFactory = Callable[[Sequence[ElectricalInput], ElectricalSettings, float,
@@ -109,7 +113,8 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
     f_lo, f_hi = float(freqs[0]), float(freqs[-1])
     f0 = settings.target_hz if settings.target_hz is not None else 0.5 * (f_lo + f_hi)
     f0 = min(max(f0, f_lo), f_hi) if f_lo <= f0 <= f_hi else f0
-    model = factory(elements, settings, max(f_hi, f0), {})
+    band_top = settings.band_hz[1] if settings.band_hz is not None else f0
+    model = factory(elements, settings, max(f_hi, f0, band_top), {})
     fed = [e.name for e in elements if e.fed]
     first = fed[0] if fed else elements[0].name
     findings = [_name(f, first) for f in getattr(model, "findings", ())]
@@ -162,6 +167,9 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
     if device is not None:
         loads += tuple(device.loads(complex(sol0.z_in), f0, power))
     findings += _load_findings(loads, power)
+    loop, found = loop_figures(elements, settings, model, sol0, f0, power, loads)
+    helix, found_helix = helix_figures(elements, sol0, power)
+    findings += found + found_helix
     structure, owners = build_structure(elements, settings)
     feeds, load_pts = gap_points(structure)
     figures = StructureElectrical(
@@ -169,7 +177,7 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
         far, band, loads, sol0.at_power(power).i_max_rms_a if sol0.p_in_w > 0 else 0.0,
         far.efficiency if far is not None else float(sol0.efficiency),
         _pictures(structure, owners), tuple(feeds), tuple(load_pts),
-        settings.ground_z_mm(), solves[0] + 1)
+        settings.ground_z_mm(), solves[0] + 1, loop, helix)
     return figures, result, at_edge, findings
 
 
@@ -213,14 +221,37 @@ def _far_field_figures(ff: Any, beam: Any, f0: float, findings: list[Finding],
     directivity = float(ff.directivity_dbi(np.array(math.radians(beam.forward_theta_deg)),
                                            np.array(math.radians(beam.forward_phi_deg))))
     axial = pol.axial_ratio_db if math.isfinite(pol.axial_ratio_db) else None
-    sense = pol.sense if pol.sense in ("right", "left", "linear") else "linear"
-    if sense in ("right", "left") and axial is not None and axial > 6.0:
-        sense = f"elliptical, {sense}-hand"
+    sense = _sense(pol.sense, axial)
     return FarFieldFigures(f0, float(beam.forward_dbi), directivity, float(balance.efficiency),
                            float(beam.forward_theta_deg), float(beam.forward_phi_deg),
                            beam.front_to_back_db, beam.front_to_rear_db, beam.beamwidth_h_deg,
                            beam.beamwidth_v_deg, axial, sense, float(balance.error),
-                           _cut(cuts.azimuth), _cut(cuts.elevation))
+                           _cut(cuts.azimuth), _cut(cuts.elevation),
+                           *_circular(ff, axial))
+
+
+def _sense(sense: str, axial: float | None) -> str:
+    out = sense if sense in ("right", "left", "linear") else "linear"
+    if out in ("right", "left") and axial is not None and axial > ELLIPTICAL_AR_DB:
+        out = f"elliptical, {out}-hand"
+    return out
+
+
+def _circular(ff: Any, axial: float | None) -> tuple[float | None, float | None, float | None,
+                                                      float | None, str | None]:
+    """For a circularly polarised antenna (axial ratio at most CIRCULAR_AR_DB towards the
+    maximum or the zenith): gain towards the zenith, gain at LOW_ELEVATION_DEG averaged
+    over the azimuth (dBi, from the mean power gain), and the zenith's axial ratio and
+    sense."""
+    up = ff.polarisation(0.0, 0.0)
+    ar_up = up.axial_ratio_db if math.isfinite(up.axial_ratio_db) else None
+    if not any(a is not None and a <= CIRCULAR_AR_DB for a in (axial, ar_up)):
+        return None, None, None, None, None
+    theta = math.radians(90.0 - LOW_ELEVATION_DEG)
+    phi = np.radians(np.arange(0.0, 360.0, CUT_STEP_DEG))
+    low = float(np.mean(ff.gain(np.full(phi.shape, theta), phi)))
+    return (_db(float(ff.gain(np.array(0.0), np.array(0.0)))), _db(low), LOW_ELEVATION_DEG,
+            ar_up, _sense(up.sense, ar_up))
 
 
 def _loads(sol: Any, model: Any, power_w: float,
@@ -231,6 +262,8 @@ def _loads(sol: Any, model: Any, power_w: float,
     by_name = {f"{e.name} capacitor": e for e in elements}
     out = []
     for name, z in zip(sol.load_names, sol.load_impedances):
+        if complex(z) == 0:  # a short (a fitting's joint): nothing to rate
+            continue
         g = at.gap(name)
         e = by_name.get(name)
         cap = e.spec.capacitor if e is not None else None
@@ -406,5 +439,8 @@ def electrical(elements: Sequence[ElectricalInput | None], settings: ElectricalS
                 out[i] = _element_result(member, settings, result, at_edge, figures.unknowns,
                                          index)
                 findings += _findings(member.name, settings, result, at_edge)
-    plan = dataclasses.replace(plan_electrical(settings), structures=tuple(structures))
+    plan = plan_electrical(settings)
+    extra = tuple(c for st in structures if st.loop is not None for c in loop_cautions(st.loop))
+    plan = dataclasses.replace(plan, structures=tuple(structures),
+                               cautions=plan.cautions + extra)
     return tuple(out), plan, tuple(findings)

@@ -245,15 +245,17 @@ class Load:
 @dataclass(frozen=True)
 class TunedCapacitor:
     """A series capacitor whose value the model solves so that `port` (a port's or a port
-    group's name) sees X = 0 at `f_hz`; `q` or `esr_ohm` its loss as for `Load`. Of the
-    (at most two) capacitances that do it, the one giving the smaller |Z| at the port is
-    taken (the series resonance)."""
+    group's name) sees X = 0 at `f_hz`; `q` or `esr_ohm` its loss as for `Load`; `r_ohm`
+    a resistance in series with it (the joints of a loop, ohm). Of the (at most two)
+    capacitances that do it, the one giving the smaller |Z| at the port is taken (the
+    series resonance)."""
 
     f_hz: float
     port: str = "feed"
     name: str = "tuning capacitor"
     q: float | None = None
     esr_ohm: float | None = None
+    r_ohm: float = 0.0
 
     def __post_init__(self) -> None:
         if not (math.isfinite(self.f_hz) and self.f_hz > 0):
@@ -268,9 +270,12 @@ class TunedCapacitor:
         if self.esr_ohm is not None and not self.esr_ohm >= 0:
             raise FabplanError("an ESR must be zero or positive", field=f"{self.name}.esr_ohm",
                                value=self.esr_ohm)
+        if not (math.isfinite(self.r_ohm) and self.r_ohm >= 0):
+            raise FabplanError("a series resistance must be zero or positive",
+                               field=f"{self.name}.r_ohm", value=self.r_ohm)
 
     def with_capacitance(self, c_f: float) -> Load:
-        return Load(self.name, "series", None, None, c_f, self.q, self.esr_ohm)
+        return Load(self.name, "series", self.r_ohm or None, None, c_f, self.q, self.esr_ohm)
 
 
 GapElement = Port | Load | TunedCapacitor

@@ -19,7 +19,8 @@ class BendForming:
     """How one bend (1-based `index`, as in the Plan's bend table) is formed."""
 
     index: int
-    method: Literal["former", "bender"]  # round a disc on a jig, or in a hand/ratchet bender
+    # round a disc on a jig, in a hand/ratchet bender, or rolled in passes (a ring)
+    method: Literal["former", "bender", "rolled"]
     former_radius_mm: float  # radius of the disc or tool die the bend's inside lies on
     former_centreline_radius_mm: float  # centreline radius while held on the former
     overbend_deg: float  # angle to bend to, while held (>= the design angle)
@@ -96,7 +97,7 @@ class ElementForming:
     elastic_limit_radius_mm: float | None = None  # above this radius the stock springs straight
     notes: tuple[str, ...] = ()
     limits: tuple[BendLimits, ...] = ()
-    method: Literal["former", "bender"] = "former"
+    method: Literal["former", "bender", "rolled"] = "former"
     model: str = "hardening"  # the stress-strain law
     effective_yield_mpa: float | None = None  # after calibration
     calibrated: bool = False

@@ -103,11 +103,15 @@ def form_piece(e: PieceCore, name: str, sm: StockModel, settings: FormingSetting
     angles = [b.angle_deg for b in rows]
     tool = settings.bender if settings.method == "bender" else None
     rho_e = model.elastic_limit_radius
-    method: Literal["former", "bender"]
+    method: Literal["former", "bender", "rolled"]
     notes: list[str] = []
+    if e.rolled:  # a ring: rolled to the held radius in passes, whatever [forming] says
+        tool = None
     if tool is None:
         states = _held_states(model, radii, angles, depth, k) if rows else []
-        method = "former"
+        method = "rolled" if e.rolled else "former"
+        if e.rolled:
+            notes += [_ring_note(e, s) for s in states[:1]]
         big = [b.index for b in rows if b.centreline_radius_mm > rho_e]
         if big:
             findings.append(Finding(
@@ -144,7 +148,7 @@ def form_piece(e: PieceCore, name: str, sm: StockModel, settings: FormingSetting
         s.held_angle_deg - b.angle_deg, s.final_radius_mm, b.angle_deg, s.outer_strain,
         b.centreline_radius_mm) for b, s in zip(rows, states))
     over = [b.index for b, r in zip(bends, rows)
-            if not r.pitch_mm and math.isfinite(b.overbend_deg)
+            if not r.pitch_mm and not e.rolled and math.isfinite(b.overbend_deg)
             and b.final_angle_deg <= 360 < b.overbend_deg]
     if over:
         findings.append(Finding(
@@ -179,7 +183,9 @@ def form_piece(e: PieceCore, name: str, sm: StockModel, settings: FormingSetting
     if tool is None:
         order = [s.index for s in sorted(sites, key=lambda s: (
             round(abs((s.start_mm + s.end_mm) / 2 - e.trim_mm - centre), 3), s.index))]
-        if e.planar and rows:
+        if e.rolled:
+            pass  # no discs, no jig marks: the ring is rolled
+        elif e.planar and rows:
             discs = formers(e.path, rows, [s.held_radius_mm for s in states],
                             [s.held_angle_deg for s in states], depth)
             gaps = spacing(discs)
@@ -219,3 +225,15 @@ def form_piece(e: PieceCore, name: str, sm: StockModel, settings: FormingSetting
     return ElementForming(bends, tuple(discs), tuple(gaps), tuple(marks), tuple(tmarks),
                           tuple(order), splay, rho_e, tuple(notes), tuple(limits), method,
                           settings.model, model.law.yield_mpa, calibrated, scale), findings
+
+
+def _ring_note(e: PieceCore, state: BendState) -> str:
+    """How to roll a ring: the arc length, the rolling (held) radius from the
+    moment-curvature model, and what it springs back to."""
+    held, final = state.held_radius_mm, state.final_radius_mm
+    return (f"rolled ring: roll the whole {e.developed_length_mm:.0f} mm arc (mm, on the "
+            f"neutral axis) to a centreline radius of {held:.1f} mm (diameter {2 * held:.0f} "
+            f"mm) while it is in the rolls, in as many passes as your roller needs; released "
+            f"it springs open to {final:.1f} mm. Check each pass against a template of the "
+            "finished radius; stop short and take the last passes gently (springback of a "
+            "large radius is sensitive to the metal's yield: a test bend calibrates it)")

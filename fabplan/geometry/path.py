@@ -165,8 +165,8 @@ class BendPath:
     heading: Vec = (1.0, 0.0, 0.0)
     normal: Vec = (0.0, 1.0, 0.0)
     gap_mm: float | None = None
-    _cache: dict[str, list[Primitive]] = field(default_factory=dict, compare=False, repr=False,
-                                               hash=False)
+    _cache: dict[str, object] = field(default_factory=dict, compare=False, repr=False,
+                                      hash=False)
 
     # -- lengths ------------------------------------------------------------
     @property
@@ -226,7 +226,7 @@ class BendPath:
     def primitives(self) -> list[Primitive]:
         """The centreline as 3D lines and arcs, from end A."""
         if "prims" in self._cache:
-            return self._cache["prims"]
+            return cast(list[Primitive], self._cache["prims"])
         pos = np.asarray(self.origin, dtype=float)
         t = _unit(np.asarray(self.heading, dtype=float))
         n = np.asarray(self.normal, dtype=float)
@@ -262,7 +262,16 @@ class BendPath:
             pos = end
             s += arc.length
         self._cache["prims"] = prims
+        self._cache["frame"] = (pos, t, n)
         return prims
+
+    def end_frame(self) -> tuple[np.ndarray, np.ndarray, np.ndarray]:
+        """The centreline point, unit tangent and unit normal at end B: the frame the
+        next piece would start from (a bend turns towards the normal, after its
+        `rotation_deg` about the tangent)."""
+        self.primitives()
+        pos, t, n = cast(tuple[np.ndarray, np.ndarray, np.ndarray], self._cache["frame"])
+        return pos.copy(), t.copy(), n.copy()
 
     def end_point(self) -> np.ndarray:
         prims = self.primitives()

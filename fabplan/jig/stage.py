@@ -102,8 +102,16 @@ def piece_parts(e: JigPiece, project: str, s: JigSettings,
     its notes)."""
     if room is None:
         room = usable_room(s, note_strip(project, s))
+    if e.forming.method == "rolled":  # a ring is rolled in passes, not bent on a jig
+        return [], []
     if any(b.pitch_mm for b in e.path.bends):
-        return helix_parts(e, s)
+        if len(e.path.bends) == 1:  # a coil: a pitch guide and a winding mandrel
+            return helix_parts(e, s)
+        return [], [Finding("jig-not-planar", "info",
+                            "the piece's helical arms are wound on its support (a quadrifilar "
+                            "helix's loop: its radials pass through the mast's holes); no jig is "
+                            "drawn: bend the corners at the marks and twist the arms onto the "
+                            "mast", e.name)]
     if not e.planar:
         return [], [Finding("jig-not-planar", "warning",
                             "the element is not flat, so no flat bending plate is drawn for it; "

@@ -104,3 +104,4 @@ class PieceCore:
     tail_straight_mm: float
     planar: bool
     mass_kg: float  # one piece, cut length of stock
+    rolled: bool = False  # a ring rolled to one radius (no jig), see PieceGeometry

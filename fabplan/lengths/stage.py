@@ -78,7 +78,7 @@ def plan_pieces(design: Design, spec: ElementSpec,
 
 def piece_core(piece: PieceGeometry, stock: StockSummary, trim: float) -> PieceCore:
     """The core figures of one piece of stock (its own extra marks included)."""
-    core = _piece(piece.label, piece.path, stock, trim)
+    core = _piece(piece.label, piece.path, stock, trim, piece.rolled)
     if not piece.marks:
         return core
     centre = core.developed_length_mm / 2
@@ -117,7 +117,8 @@ def _fit_findings(name: str, geometry: ElementGeometry,
     return out
 
 
-def _piece(label: str, path: BendPath, stock: StockSummary, trim: float) -> PieceCore:
+def _piece(label: str, path: BendPath, stock: StockSummary, trim: float,
+           rolled: bool = False) -> PieceCore:
     profile = stock.spec.profile
     d = profile.outer_diameter_mm
     depth = profile.depth_mm
@@ -140,7 +141,7 @@ def _piece(label: str, path: BendPath, stock: StockSummary, trim: float) -> Piec
     mass = stock.mass_per_m_kg * cut / 1000
     return PieceCore(label, stock, path, d, path.centreline_length(), developed, trim, cut,
                      path.gap_mm, tuple(rows), tuple(marks), path.tail_straight(),
-                     path.is_planar(), mass)
+                     path.is_planar(), mass, rolled)
 
 
 def _row(span: BendSpan, centre: float, trim: float) -> BendRow:

@@ -19,6 +19,8 @@ from typing import Any
 from ..boom.records import BoomPlan, ElementMount
 from ..em.records import (
     ElementElectrical,
+    HelixFigures,
+    LoopFigures,
     PatternCut,
     PlanElectrical,
     StructureElectrical,
@@ -243,7 +245,81 @@ def structure_dict(st: StructureElectrical) -> dict[str, Any]:
                    "voltage_v_peak": num(ld.voltage_v_peak, 3), "power_w": num(ld.power_w, 5),
                    "rating_v": num(ld.rating_v, 3)} for ld in st.loads],
     }
+    if ff is not None and ff.gain_zenith_dbi is not None:
+        out.update({"gain_zenith_dbi": num(ff.gain_zenith_dbi, 3),
+                    "gain_low_elevation_dbi": num(ff.gain_low_dbi, 3),
+                    "low_elevation_deg": num(ff.low_elevation_deg, 3),
+                    "axial_ratio_zenith_db": num(ff.axial_ratio_zenith_db, 3),
+                    "polarisation_zenith": ff.polarisation_zenith})
+    if st.loop is not None:
+        out.update(_loop_summary(st.loop))
+        out["loop"] = loop_dict(st.loop)
+    if st.helix is not None:
+        out["helix"] = helix_dict(st.helix)
     return out
+
+
+def _loop_summary(lf: LoopFigures) -> dict[str, Any]:
+    """The tuned loop's headline figures, at the structure's level for scripts."""
+    return {
+        "capacitance_f": num(lf.capacitance_f, sig=6),
+        "capacitance_range_f": (None if lf.capacitance_range_f is None else
+                                [num(c, sig=6) for c in lf.capacitance_range_f]),
+        "capacitor_voltage_v_rms": num(lf.capacitor_v_rms, 3),
+        "capacitor_voltage_v_peak": num(lf.capacitor_v_peak, 3),
+        "q_loaded": num(lf.q_loaded, 3),
+        "bandwidth_hz": num(lf.bandwidth_hz, 1),
+    }
+
+
+def loop_dict(lf: LoopFigures) -> dict[str, Any]:
+    """Every figure of a capacitor-tuned loop (ohm, H, F, V, A, Hz, mm)."""
+    return {
+        "element": lf.element, "coupling": list(lf.coupling), "f_hz": num(lf.f_hz, 1),
+        "power_w": num(lf.power_w, 6), "circumference_wl": num(lf.circumference_wl, 5),
+        "inductance_h": {"model": num(lf.inductance_model_h, sig=6),
+                         "formula": num(lf.inductance_formula_h, sig=6)},
+        "radiation_resistance_ohm": {"model": num(lf.radiation_resistance_model_ohm, sig=6),
+                                     "formula": num(lf.radiation_resistance_formula_ohm, sig=6)},
+        "conductor_loss_ohm": {"model": num(lf.conductor_loss_model_ohm, sig=6),
+                               "formula": num(lf.conductor_loss_formula_ohm, sig=6)},
+        "joint_loss_ohm": num(lf.joint_loss_ohm, sig=6), "joints": lf.joints,
+        "capacitor_loss_ohm": num(lf.capacitor_loss_ohm, sig=6),
+        "total_resistance_ohm": num(lf.total_resistance_ohm, sig=6),
+        "efficiency": num(lf.efficiency, 5), "efficiency_formula": num(lf.efficiency_formula, 5),
+        "reactance_ohm": num(lf.reactance_ohm, 4),
+        "q_unloaded": num(lf.q_unloaded, 3), "q_loaded": num(lf.q_loaded, 3),
+        "bandwidth_hz": num(lf.bandwidth_hz, 1), "bandwidth_swr2_hz": num(lf.bandwidth_swr2_hz, 1),
+        "capacitance_f": num(lf.capacitance_f, sig=6), "solved": lf.solved,
+        "capacitance_formula_f": num(lf.capacitance_formula_f, sig=6),
+        "capacitance_range_f": (None if lf.capacitance_range_f is None else
+                                [num(c, sig=6) for c in lf.capacitance_range_f]),
+        "band": [{"f_hz": num(p.f_hz, 1), "capacitance_f": num(p.capacitance_f, sig=6),
+                  "capacitor_voltage_v_rms": num(p.capacitor_v_rms, 3),
+                  "capacitor_voltage_v_peak": num(p.capacitor_v_peak, 3),
+                  "current_a_rms": num(p.current_a_rms, 4), "efficiency": num(p.efficiency, 5),
+                  "r_ohm": num(p.feed_z_ohm.real, 4), "x_ohm": num(p.feed_z_ohm.imag, 4),
+                  "swr": num(p.swr, 4)} for p in lf.band],
+        "capacitor_voltage_v_rms": num(lf.capacitor_v_rms, 3),
+        "capacitor_voltage_v_peak": num(lf.capacitor_v_peak, 3),
+        "current_a_rms": num(lf.current_a_rms, 4),
+        "capacitor_voltage_v_peak_max": num(lf.capacitor_v_peak_max, 3),
+        "capacitor_voltage_v_peak_max_hz": num(lf.capacitor_v_peak_max_hz, 1),
+        "rating_v": num(lf.rating_v, 3),
+        "coupling_loop": {"rule_diameter_mm": num(lf.coupling_rule_diameter_mm),
+                          "rule_basis": lf.coupling_rule_basis,
+                          "drawn_diameter_mm": num(lf.coupling_diameter_mm),
+                          "r_ohm": num(lf.feed_z_ohm.real, 4), "x_ohm": num(lf.feed_z_ohm.imag, 4),
+                          "swr": num(lf.feed_swr, 4)},
+        "notes": list(lf.notes),
+    }
+
+
+def helix_dict(h: HelixFigures) -> dict[str, Any]:
+    """Two loops fed in parallel: each loop's current and their phase (deg)."""
+    return {"element": h.element, "loops": list(h.loops),
+            "current_a_rms": [num(i, 5) for i in h.current_a_rms],
+            "phase_deg": num(h.phase_deg, 3)}
 
 
 def _plan_electrical(pe: PlanElectrical) -> dict[str, Any]:

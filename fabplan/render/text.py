@@ -26,6 +26,7 @@ from ..units import (
     format_money,
     format_weight,
 )
+from .loops import circular_lines, helix_lines, loop_lines, qfh_lines
 
 __all__ = ["table", "findings_text", "findings_lines", "plan_to_text", "forming_text",
            "estimate_text", "order_text", "electrical_summary_lines", "sweep_lines",
@@ -137,6 +138,8 @@ def plan_to_text(plan: Plan) -> str:
             if piece.forming is not None and piece.bends:
                 out.append(forming_text(piece.forming, unit, den))
                 out.append("")
+        if qfh := qfh_lines(plan, e, L):
+            out += qfh + [""]
         if e.estimate is not None:
             out.append(estimate_text(e.estimate, unit))
             out.append("")
@@ -180,7 +183,8 @@ def forming_text(self: ElementForming, unit: LengthUnit, den: int) -> str:
         rows.append([str(b.index), L(b.former_radius_mm), L(2 * b.former_radius_mm),
                      f"{b.overbend_deg:.1f}", f"{b.springback_deg:.1f}", final,
                      f"{100 * b.outer_strain:.1f}"])
-    head = ["bend", "former radius" if method == "former" else "die radius",
+    head = ["bend", {"former": "former radius", "rolled": "roll to inside radius"}.get(
+        method, "die radius"),
             "diameter", "bend to deg", "springback deg", "final radius", "strain %"]
     out.append(_right_table(head, rows))
     if self.formers:
@@ -420,6 +424,7 @@ def structure_lines(st: StructureElectrical) -> list[str]:
         rows.append(("polarisation", pol))
         width = max(len(r[0]) for r in rows)
         lines += [f"  {name.ljust(width)}  {value}" for name, value in rows]
+        lines += circular_lines(ff)
     power = f"{st.power_w:g} W" + ("" if st.power_stated else " (no [electrical] power given)")
     lines.append(f"  at {power}: largest conductor current {st.max_current_a_rms:.2f} A RMS")
     for ld in st.loads:
@@ -429,6 +434,10 @@ def structure_lines(st: StructureElectrical) -> list[str]:
                      f"({ld.voltage_v_peak:.0f} V peak), {ld.current_a_rms:.2f} A RMS, "
                      f"{ld.power_w:.2f} W lost in it"
                      + (f"; rated {ld.rating_v:.0f} V" if ld.rating_v is not None else ""))
+    if st.helix is not None:
+        lines += helix_lines(st.helix)
+    if st.loop is not None:
+        lines += loop_lines(st.loop)
     return lines
 
 

@@ -276,3 +276,23 @@ def test_a_piece_longer_than_500_m_is_refused_before_any_work():
     assert err.field == "element[1]"
     # 1000 turns of sqrt((pi 100)^2 + 1000^2) mm: 1048.2 m (the textbook helix length)
     assert "1048.2 m long" in err.rule and "up to 500 m" in err.rule
+
+
+@pytest.mark.parametrize("extra, needle", [
+    ('band = { from = "14.35 MHz", to = "14.0 MHz" }', "must be above"),
+    ('band = { from = "7 MHz", to = "21 MHz" }', "an octave"),
+])
+def test_electrical_band_is_checked(extra: str, needle: str):
+    text = ('[stock]\ncatalogue = "acr-1/4"\n[[element]]\nshape = "circle-loop"\n'
+            f'diameter = "300 mm"\n[electrical]\ntarget = "14.1 MHz"\n{extra}\n')
+    with pytest.raises(DesignError, match=needle):
+        parse_design(text)
+
+
+def test_capacitor_joints_are_read():
+    text = ('[stock]\ncatalogue = "acr-1/4"\n[[element]]\nshape = "circle-loop"\n'
+            'diameter = "300 mm"\n[element.capacitor]\njoint_resistance = "2 mohm"\njoints = 3\n')
+    cap = parse_design(text).elements[0].capacitor
+    assert cap.joint_resistance_ohm == pytest.approx(0.002) and cap.joints == 3
+    with pytest.raises(DesignError, match="joint_resistance"):
+        parse_design(text.replace('joint_resistance = "2 mohm"\n', ""))

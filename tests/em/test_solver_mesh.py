@@ -163,3 +163,41 @@ def test_arc_polygon_refuses_too_few_segments():
                math.pi * 1.5, 0.0, 0.0)
     with pytest.raises(FabplanError, match="90 degrees"):
         arc_polygon(arc, 2)
+
+
+def test_helix_between_corners_is_graded_and_keeps_its_length():
+    # a quadrifilar loop: small corner bends beside long helical arms. The arms' segments
+    # follow the size field (fine next to the corners, growing away from them) instead of
+    # taking the corners' size all along; each arm's polygon keeps the arc's length (the
+    # mesh rule) and neighbours stay within about 2:1
+    from fabplan.em.mesh import mesh_structure
+    from fabplan.em.structure import Gap as WGap
+    from fabplan.em.structure import Port, Structure, Wire, WireEnd, resolve
+    from fabplan.geometry.shapes import quadrifilar as q
+
+    shape = q.loop_shape("l", 300.0, 680.0, 0.5, 8.0)
+    path = q.loop_path(shape, 0.0, 0.0, 10.0, "right", 0.5)
+    s = Structure((Wire(path, 1.03),), (WGap(WireEnd(0, "B"), WireEnd(0, "A"), Port()),))
+    h = C0 / 145e6 * 1e3 / 20
+    mesh = mesh_structure(resolve(s), h, 8, 2.0)
+    wire = mesh.wire == 0
+    lengths = mesh.lengths[wire]
+    assert wire.sum() < 150  # evenly at the corners' size it would be several hundred
+    assert lengths.max() > 10 * lengths.min()
+    ratio = lengths[1:] / lengths[:-1]
+    assert np.all((ratio < 2.05) & (ratio > 1 / 2.05))
+    assert lengths.sum() == pytest.approx(path.centreline_length(), rel=1e-9)
+
+
+def test_arc_polygon_at_given_fractions_keeps_the_length():
+    # source: the mesh rule (module docstring): interior nodes pushed radially so that the
+    # chords add up to the arc's length, now at uneven positions along a helix
+    path = BendPath((Bend(150.0, 180.0, 0.0, 1400.0),))
+    arc = path.primitives()[0]
+    fractions = np.array([0.0, 0.02, 0.06, 0.15, 0.3, 0.5, 0.7, 0.85, 0.94, 0.98, 1.0])
+    nodes = arc_polygon(arc, 10, fractions)
+    assert float(np.linalg.norm(np.diff(nodes, axis=0), axis=1).sum()) == \
+        pytest.approx(arc.length, rel=1e-12)
+    assert np.allclose(nodes[0], arc.start) and np.allclose(nodes[-1], arc.end)
+    with pytest.raises(FabplanError):
+        arc_polygon(arc, 3, np.array([0.0, 0.9, 0.95, 1.0]))  # 162 degrees in one segment

@@ -229,3 +229,16 @@ def test_is_planar_is_exact():
                         Straight(20_000)))
     assert not twisted.is_planar(tol_mm=0.1)
     assert twisted.is_planar(tol_mm=1.0)
+
+
+def test_end_frame_is_where_the_next_piece_starts():
+    # a bend after the frame turns towards the normal: a straight, then a 90 degree bend of
+    # radius 5 to the left, ends 5 along y from the corner heading +y, its normal -x
+    # (towards the centre of the bend it came from)
+    p = BendPath((Straight(10.0), Bend(5.0, 90.0)))
+    pos, t, n = p.end_frame()
+    assert pos == pytest.approx([15.0, 5.0, 0.0])
+    assert t == pytest.approx([0.0, 1.0, 0.0], abs=1e-12)
+    assert n == pytest.approx([-1.0, 0.0, 0.0], abs=1e-12)
+    longer = BendPath((Straight(10.0), Bend(5.0, 90.0), Bend(5.0, 90.0)))
+    assert longer.end_point() == pytest.approx(pos + 5.0 * t + 5.0 * n)

@@ -14,6 +14,8 @@ from . import (
     folded_dipole,
     hairpin,
     helix,
+    polygon_loop,
+    quadrifilar,
     rect_loop,
     straight,
     tip_coupled_pair,
@@ -23,5 +25,5 @@ from .base import ShapeSpec
 __all__ = ["SHAPES", "ShapeSpec"]
 
 SHAPES: dict[str, ShapeSpec] = {m.SPEC.name: m.SPEC for m in (
-    folded_dipole, hairpin, rect_loop, delta_loop, circle_loop, helix, custom, straight,
-    tip_coupled_pair)}
+    folded_dipole, hairpin, rect_loop, delta_loop, circle_loop, polygon_loop, helix, custom,
+    straight, tip_coupled_pair, quadrifilar)}

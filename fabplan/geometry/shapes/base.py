@@ -60,7 +60,9 @@ class PieceGeometry:
     `inside`: the index of the piece this one slides into (telescoping tubes).
     `conductor_of`: for a piece of the electrical model that runs through several
     pieces of stock, (from arc length mm, index of the stock piece whose section the
-    conductor has from there); empty: the element's stock."""
+    conductor has from there); empty: the element's stock. `rolled`: a ring of one
+    large radius rolled in passes (a ring roller or by hand), not bent round a disc:
+    the forming stage gives its rolling radius and no jig is drawn."""
 
     label: str
     path: BendPath
@@ -69,6 +71,7 @@ class PieceGeometry:
     marks: tuple[tuple[str, float], ...] = ()
     inside: int | None = None
     conductor_of: tuple[tuple[float, int], ...] = ()
+    rolled: bool = False
 
 
 @dataclass(frozen=True)
@@ -83,12 +86,14 @@ class End:
 @dataclass(frozen=True)
 class Gap:
     """A gap between two piece ends (or the two ends of one piece) of `width_mm`:
-    the feed point ("feed"), or where a lumped part sits ("load")."""
+    the feed point ("feed"), where a lumped part sits ("load"), or a fitting that
+    joins two pieces of stock ("joint": a conductor in the model, the straight
+    between the ends)."""
 
     a: End
     b: End
     width_mm: float
-    role: Literal["feed", "load"] = "feed"
+    role: Literal["feed", "load", "joint"] = "feed"
 
 
 Vec3 = tuple[float, float, float]
@@ -188,6 +193,9 @@ class ShapeSpec:
     parallel_ends: ParallelEnds | None = None
     geometry: Callable[[Any, float], ElementGeometry] | None = None
     dimensions: Callable[[Any, float], tuple[Dimension, ...]] | None = None
+    # a single-turn loop's circle or regular polygon for the small-loop formulas
+    # (fabplan.antennas.small_loop.LoopGeometry), for stock of diameter d
+    small_loop: Callable[[Any, float], Any] | None = None
 
     def element_geometry(self, params: Any, diameter_mm: float) -> ElementGeometry:
         """Every piece and gap of an element of this shape, with its dimensions."""

@@ -24,6 +24,7 @@ from .context import Context, default_paper
 from .electrical import electrical
 from .estimate import order
 from .findings import findings, safety
+from .loops import loops
 
 if TYPE_CHECKING:
     from ...measuring import Measurement
@@ -56,6 +57,7 @@ def sheet_pdf(plan: Plan, paper: str | None = None,
         story += core.element(ctx, e)
     story += order(ctx)
     story += electrical(ctx)
+    story += loops(ctx)
     if measurement is not None:
         from .measure import comparison_section
 
