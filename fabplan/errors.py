@@ -8,7 +8,6 @@ collected as `Finding` records with stable codes instead of being raised.
 
 from __future__ import annotations
 
-import difflib
 from collections.abc import Iterable
 from dataclasses import dataclass
 from typing import Literal
@@ -144,5 +143,7 @@ class Finding:
 
 def did_you_mean(word: str, options: Iterable[str], cutoff: float = 0.6) -> str:
     """`"did you mean 'x'? "` for the nearest option, or "" when none is near."""
+    import difflib
+
     near = difflib.get_close_matches(word, sorted(options), n=1, cutoff=cutoff)
     return f"did you mean {near[0]!r}? " if near else ""

@@ -50,7 +50,6 @@ boom's) are added in `adjustables`.
 from __future__ import annotations
 
 import dataclasses
-import logging
 import math
 from collections.abc import Callable, Mapping, Sequence
 from dataclasses import dataclass
@@ -68,6 +67,7 @@ from .errors import DesignError, FabplanError, Finding
 from .feed import Direct, Line, MatchChain
 from .geometry.shapes import SHAPES
 from .geometry.shapes.base import TunedValue
+from .logs import log
 from .measure.analysis import DEFAULT_LEVELS, Band, SweepAnalysis, analyse_sweep
 from .measure.csvsweep import read_csv_sweep
 from .measure.deembed import Stage, deembed, from_matching, line_stage
@@ -77,8 +77,6 @@ from .measure.sweep import MeasuredSweep
 from .measure.touchstone import predicted_touchstone, read_touchstone
 from .numeric import brentq
 from .plan import ElementPlan, Plan, core_element, electrical_input
-
-log = logging.getLogger("fabplan")
 
 __all__ = [
     "FEATURE_KINDS", "SINGLE_KINDS", "BRACKET_FRAC", "TOLERANCE_FRAC", "FeatureKind",

@@ -21,7 +21,6 @@ printing. Hz and mm.
 from __future__ import annotations
 
 import dataclasses
-import logging
 from dataclasses import dataclass
 from typing import Any
 
@@ -38,9 +37,8 @@ from .feed import C0_M_S
 from .geometry.shapes import SHAPES
 from .geometry.shapes.base import TunedValue
 from .lengths.records import PieceCore
+from .logs import log
 from .plan import ElementPlan, Plan, core_element, electrical_input
-
-log = logging.getLogger("fabplan")
 
 __all__ = ["TuneResult", "MarkChange", "MeasuredResult", "feature_hz", "tune",
            "from_measurement", "proportional_length", "tuned_values", "fed_element",

@@ -10,7 +10,6 @@ modules and registers their commands.
 from __future__ import annotations
 
 import functools
-import logging
 import sys
 from collections.abc import Callable
 from pathlib import Path
@@ -33,14 +32,15 @@ STDIN_SOURCE = "<stdin>"  # the design's source name when it is read from standa
 
 F = TypeVar("F", bound=Callable[..., Any])
 
-_LOG = logging.getLogger("fabplan")
-
-
 # -- quiet and verbose -----------------------------------------------------------------------
 def set_verbosity(ctx: click.Context, *, quiet: bool, verbose: int) -> None:
     """Remember -q for this run, and send the library's log to standard error:
     warnings by default, errors only with -q, INFO with -v, DEBUG with -vv.
     The handler is removed when the command ends."""
+    import logging
+
+    from ..logs import log
+
     ctx.meta["fabplan.quiet"] = quiet
     if verbose >= 2:
         level = logging.DEBUG
@@ -51,13 +51,13 @@ def set_verbosity(ctx: click.Context, *, quiet: bool, verbose: int) -> None:
     handler = logging.StreamHandler(sys.stderr)
     handler.setFormatter(logging.Formatter("fabplan: %(levelname)s: %(message)s"))
     handler.setLevel(level)
-    old_level = _LOG.level
-    _LOG.addHandler(handler)
-    _LOG.setLevel(min(level, old_level) if old_level else level)
+    old_level = log.level
+    log.addHandler(handler)
+    log.setLevel(min(level, old_level) if old_level else level)
 
     def restore() -> None:
-        _LOG.removeHandler(handler)
-        _LOG.setLevel(old_level)
+        log.removeHandler(handler)
+        log.setLevel(old_level)
 
     ctx.call_on_close(restore)
 
@@ -188,7 +188,9 @@ def load_design_file(design_path: Path) -> Any:
         from ..design.read import load_design
 
         design = load_design(design_path)
-    _LOG.info("read %s: %d element(s), stock %s", design.source, len(design.elements),
+    from ..logs import log
+
+    log.info("read %s: %d element(s), stock %s", design.source, len(design.elements),
               design.stock.description)
     return design
 
@@ -204,7 +206,9 @@ def load_plan(design_path: Path, **changes: Any) -> Any:
     if changes:
         design = dataclasses.replace(design, **changes)
     plan = make_plan(design)
-    _LOG.info("planned %s: %d finding(s)", design.source, len(plan.findings))
+    from ..logs import log
+
+    log.info("planned %s: %d finding(s)", design.source, len(plan.findings))
     return plan
 
 

@@ -6,7 +6,6 @@ Parses options, calls the core, calls a renderer; no engineering here.
 from __future__ import annotations
 
 import sys
-from importlib import resources
 from pathlib import Path
 
 import click
@@ -88,6 +87,8 @@ def new(shape: str, output: Path | None, force: bool) -> None:
         raise FabplanError(f"unknown shape; run `fabplan shapes` (known: {', '.join(SHAPES)})",
                            field="SHAPE", value=shape)
     check_output(output, force)
+    from importlib import resources
+
     text = resources.files("fabplan").joinpath("templates", f"{shape}.toml").read_text("utf-8")
     write_one_text(output or Path("-"), text, force)
 

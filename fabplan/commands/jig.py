@@ -12,7 +12,7 @@ from typing import Any
 
 import click
 
-from ..design.jig import DRAWING_UNITS
+from ..choices import DRAWING_UNITS
 from ..errors import FabplanError
 from .base import (
     design_argument,

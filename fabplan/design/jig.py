@@ -31,6 +31,7 @@ import re
 from dataclasses import dataclass
 from typing import Literal
 
+from ..choices import DRAWING_UNITS, DrawingUnit
 from ..errors import DesignError
 from ..section import Section
 from ..units import parse_length
@@ -38,8 +39,6 @@ from ..units import parse_length
 __all__ = ["JigSettings", "DrawingUnit", "DRAWING_UNITS", "SplitMode", "SPLIT_MODES",
            "Limit", "LIMITS", "read_jig", "parse_bed", "with_options", "check_settings"]
 
-DrawingUnit = Literal["mm", "in"]
-DRAWING_UNITS: tuple[DrawingUnit, ...] = ("mm", "in")
 SplitMode = Literal["sections", "end-plates"]
 SPLIT_MODES: tuple[SplitMode, ...] = ("sections", "end-plates")
 

@@ -44,7 +44,6 @@ Frequencies in hertz; values in the caller's units (ohms for an impedance).
 
 from __future__ import annotations
 
-import logging
 import math
 from collections.abc import Callable
 from dataclasses import dataclass, field
@@ -54,12 +53,12 @@ import numpy as np
 from numpy.typing import ArrayLike, NDArray
 
 from ..errors import FabplanError
+from ..logs import log
 
 __all__ = ["aaa", "Barycentric", "fit_sweep", "FittedSweep", "Resonance", "SwrMinimum",
            "chebyshev_points", "DEFAULT_RTOL", "DEFAULT_INITIAL", "DEFAULT_MAX_SOLVES",
            "AAA_RTOL"]
 
-log = logging.getLogger("fabplan")
 
 FloatArray = NDArray[np.float64]
 ComplexArray = NDArray[np.complex128]

@@ -37,7 +37,6 @@ amperes (peak phasors); metres inside.
 
 from __future__ import annotations
 
-import logging
 import math
 from collections.abc import Callable, Sequence
 from dataclasses import dataclass, field
@@ -46,6 +45,7 @@ from typing import TYPE_CHECKING, Any, Literal
 import numpy as np
 
 from ..errors import FabplanError, Finding
+from ..logs import log
 from .kernel import (
     CHARGE_SIGN,
     SWAP,
@@ -66,7 +66,6 @@ __all__ = ["wire_model", "path_model", "structure_model", "WireModel", "Structur
            "Solution", "GapFigure", "PowerFigures", "C0", "EPS0", "ETA0",
            "MIN_SEGMENT_RADII", "MAX_KA", "MAX_FILL_BYTES", "fill_bytes"]
 
-log = logging.getLogger("fabplan")
 
 C0 = 299_792_458.0  # m/s
 EPS0 = 1.0 / (MU0 * C0 * C0)

@@ -11,7 +11,6 @@ Pure: no files, no printing. mm, degrees.
 
 from __future__ import annotations
 
-import logging
 import math
 from dataclasses import dataclass
 from typing import Literal
@@ -38,7 +37,6 @@ from .springback import (
 
 __all__ = ["StockModel", "stock_model", "form_piece", "same_radius"]
 
-log = logging.getLogger("fabplan")
 
 # a finished radius within this of the shape's counts as the same (mm, fraction)
 _RADIUS_TOL_MM = 0.5
