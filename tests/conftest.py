@@ -215,15 +215,17 @@ def qfh_example_plan():
 def example_builds(tmp_path_factory):
     """`fabplan build` of the loop and the helix examples, once per session: {name: (the
     completed process, the output folder)}."""
+    from click.testing import CliRunner
+
+    from fabplan.cli import main
+
     out = {}
     for name, path in (("loop", LOOP_EXAMPLE), ("qfh", QFH_EXAMPLE)):
         folder = tmp_path_factory.mktemp(f"build-{name}") / "out"
-        env = dict(os.environ)
-        env.pop("PYTHONWARNINGS", None)
-        proc = subprocess.run([sys.executable, "-m", "fabplan", "build", str(path), "-o",
-                               str(folder)], capture_output=True, text=True, cwd=ROOT, env=env,
-                              timeout=300)
-        out[name] = (proc, folder)
+        result = CliRunner().invoke(main, ["build", str(path), "-o", str(folder)],
+                                    prog_name="fabplan", catch_exceptions=False)
+        out[name] = (CliRun(result.exit_code, result.stdout, result.stderr,
+                            result.stdout_bytes), folder)
     return out
 
 

@@ -37,7 +37,7 @@ ROOT = Path(__file__).resolve().parent.parent
 SEEDS = sorted((ROOT / "fabplan" / "templates").glob("*.toml")) + sorted(
     (ROOT / "examples").glob("*.toml"))
 SEED_TEXT = {p.name: p.read_text(encoding="utf-8") for p in SEEDS}
-EXAMPLES = int(os.environ.get("FABPLAN_FUZZ_EXAMPLES", "150"))  # per command
+EXAMPLES = int(os.environ.get("FABPLAN_FUZZ_EXAMPLES", "60"))  # per command
 CASE_SECONDS = 60
 LARGE_MM = 5000.0  # see _large
 

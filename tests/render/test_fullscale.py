@@ -64,6 +64,14 @@ feed_gap = "20 mm"
 """
 
 
+def _plan(design):
+    """The plan without its electrical check: a template draws no electrical figure,
+    and the model's solves would only cost time."""
+    import dataclasses
+
+    return make_plan(dataclasses.replace(design, electrical=None))
+
+
 def _template(name: str) -> str:
     return (ROOT / "fabplan" / "templates" / f"{name}.toml").read_text()
 
@@ -71,9 +79,9 @@ def _template(name: str) -> str:
 @pytest.fixture(scope="module")
 def plans(example_plan):
     """Plans to draw: the example, issue 15's square loop, and shape templates."""
-    out = {"example": example_plan, "square-loop": make_plan(parse_design(SQUARE_LOOP))}
+    out = {"example": example_plan, "square-loop": _plan(parse_design(SQUARE_LOOP))}
     for name in ("helix", "circle-loop", "custom", "delta-loop"):
-        out[name] = make_plan(parse_design(_template(name)))
+        out[name] = _plan(parse_design(_template(name)))
     return out
 
 
@@ -260,7 +268,7 @@ def test_blank_tiles_left_out_and_the_rest_still_join(write_design):
     printed, and the printed ones still assemble to true marks."""
     text = (Path(__file__).resolve().parents[2] / "fabplan" / "templates"
             / "circle-loop.toml").read_text()
-    p = make_plan(load_design(write_design(text)))
+    p = _plan(load_design(write_design(text)))
     data = template_pdf(p, "a4")
     with _open(data) as pdf:
         head = re.sub(r"\s+", " ", pdf.pages[0].extract_text())
@@ -353,7 +361,7 @@ def test_same_plan_same_bytes(example_plan, pdfs):
 def test_non_planar_element_gets_a_strip(write_design):
     text = (Path(__file__).resolve().parents[2] / "fabplan" / "templates"
             / "helix.toml").read_text()
-    p = make_plan(load_design(write_design(text)))
+    p = _plan(load_design(write_design(text)))
     with _open(template_pdf(p, "letter")) as pdf:
         assert len(pdf.pages) >= 2
         assert "not for marking" in "".join(pg.extract_text() for pg in pdf.pages)
@@ -365,7 +373,7 @@ def test_too_big_for_the_roll_is_bad_input(write_design):
     # a 30 x 30 in loop: about 770 mm each way, wider than a 610 mm roll both ways
     text = text.replace('width = "9 in"', 'width = "30 in"').replace('height = "6 in"',
                                                                    'height = "30 in"')
-    p = make_plan(load_design(write_design(text)))
+    p = _plan(load_design(write_design(text)))
     with pytest.raises(DesignError, match="does not fit"):
         template_pdf(p, "roll-610mm")
 
@@ -381,7 +389,7 @@ def test_bender_marks_drawn_where_the_plan_puts_them(write_design):
     text = (text[:cut] if cut > 0 else text) + (
         '\n[forming]\nmethod = "bender"\nsquare_ends = true\n'
         '[forming.bender]\nradius = "9/16 in"\nreference = "bend-start"\n')
-    p = make_plan(load_design(write_design(text)))
+    p = _plan(load_design(write_design(text)))
     e = p.elements[0]
     assert e.piece.forming is not None and e.piece.forming.tool_marks
     centre = (e.piece.conductor_diameter_mm + 2 * CENTRE_TICK_MM) * PT

@@ -12,12 +12,16 @@ from fabplan.render.loops import RATING_MARGIN, capacitor_to_buy
 from fabplan.render.text import plan_to_text
 from fabplan.units import format_capacitance, format_voltage
 
+_TEXT: dict[str, str] = {}  # each sheet's text, read once (reading is slow)
+
 
 def sheet_text(folder) -> str:
     import pdfplumber
 
-    with pdfplumber.open(folder / "build-sheet.pdf") as pdf:
-        return "\n".join(page.extract_text() or "" for page in pdf.pages)
+    if str(folder) not in _TEXT:
+        with pdfplumber.open(folder / "build-sheet.pdf") as pdf:
+            _TEXT[str(folder)] = "\n".join(page.extract_text() or "" for page in pdf.pages)
+    return _TEXT[str(folder)]
 
 
 def test_examples_build(example_builds):

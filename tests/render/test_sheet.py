@@ -24,9 +24,14 @@ def a4(example_plan):
     return sheet_pdf(example_plan, "a4")
 
 
+_TEXT: dict[bytes, list[str]] = {}  # the pages' text of each PDF read (reading is slow)
+
+
 def _pages(data: bytes) -> list[str]:
-    with pdfplumber.open(io.BytesIO(data)) as pdf:
-        return [page.extract_text() for page in pdf.pages]
+    if data not in _TEXT:
+        with pdfplumber.open(io.BytesIO(data)) as pdf:
+            _TEXT[data] = [page.extract_text() for page in pdf.pages]
+    return _TEXT[data]
 
 
 def _flat(data: bytes) -> str:
@@ -184,9 +189,13 @@ DIMENSION_KEYS = ("side", "inside_length", "overall_length", "spacing", "centre_
 
 
 def _template_plan(cli, tmp_path, shape):
+    """A template's plan without its electrical check (these tests read the drawings and
+    steps, not the electrical pages; the model's solves would only cost time)."""
+    import dataclasses
+
     path = tmp_path / f"{shape}.toml"
     cli("new", shape, "-o", path, check_exit=0)
-    return path, make_plan(load_design(path))
+    return path, make_plan(dataclasses.replace(load_design(path), electrical=None))
 
 
 def _bezier(p0, p1, p2, p3, n=12):
