@@ -8,7 +8,7 @@ Every figure comes from the Plan; this module only draws (reportlab graphics).
 from __future__ import annotations
 
 import math
-from collections.abc import Sequence
+from collections.abc import Callable, Sequence
 from typing import Any
 
 from ...em.records import ElementElectrical, PatternCut, StructureElectrical, SweepResult
@@ -16,7 +16,7 @@ from ...units import format_frequency
 from ..text import band_text
 from .context import Context
 
-__all__ = ["electrical", "swr_axis", "nice_step"]
+__all__ = ["electrical", "swr_axis", "nice_step", "frequency_axes"]
 
 BLUE = (0.1, 0.3, 0.8)
 GREY = (0.6, 0.6, 0.6)
@@ -154,6 +154,37 @@ def swr_axis(values: Sequence[float]) -> tuple[float, float, float]:
     return 1.0, max(top, 1.0 + step), step
 
 
+def frequency_axes(lp: Any, f_lo: float, f_hi: float, axis: tuple[float, float, float]
+                   ) -> tuple[Callable[[float], float], Callable[[float], float]]:
+    """Set a reportlab LinePlot's axes for a sweep: MHz from f_lo to f_hi ticked at a round
+    step, the value axis (lo, top, step), labels and a light grid. Returns the functions
+    from MHz and from a value to the drawing's x and y."""
+    from reportlab.lib import colors
+
+    lo, top, step = axis
+    lp.yValueAxis.valueMin, lp.yValueAxis.valueMax, lp.yValueAxis.valueStep = lo, top, step
+    xstep = nice_step(f_hi - f_lo, 8)
+    lp.xValueAxis.valueMin, lp.xValueAxis.valueMax = f_lo, f_hi
+    first = xstep * math.ceil(f_lo / xstep - 1e-9)
+    lp.xValueAxis.valueSteps = [first + k * xstep
+                                for k in range(int((f_hi - first) / xstep + 1e-9) + 1)]
+    lp.xValueAxis.labelTextFormat = "%g"
+    lp.yValueAxis.labelTextFormat = "%g"
+    lp.xValueAxis.labels.fontSize = lp.yValueAxis.labels.fontSize = 7
+    grid = colors.Color(0.85, 0.85, 0.85)
+    lp.yValueAxis.visibleGrid = lp.xValueAxis.visibleGrid = True
+    lp.yValueAxis.gridStrokeColor = lp.xValueAxis.gridStrokeColor = grid
+    lp.yValueAxis.gridStrokeWidth = lp.xValueAxis.gridStrokeWidth = 0.3
+
+    def px(f_mhz: float) -> float:
+        return float(lp.x + (f_mhz - f_lo) / (f_hi - f_lo) * lp.width)
+
+    def py(v: float) -> float:
+        return float(lp.y + (v - lo) / (top - lo) * lp.height)
+
+    return px, py
+
+
 def _swr_plot(ctx: Context, sw: SweepResult, target_hz: float | None) -> Any:
     from reportlab.graphics.charts.lineplots import LinePlot
     from reportlab.graphics.shapes import Drawing, Line, String
@@ -175,27 +206,9 @@ def _swr_plot(ctx: Context, sw: SweepResult, target_hz: float | None) -> Any:
     if len(series) > 1:
         lp.lines[1].strokeColor = colors.Color(*GREY)
         lp.lines[1].strokeDashArray = [3, 2]
-    lp.yValueAxis.valueMin, lp.yValueAxis.valueMax, lp.yValueAxis.valueStep = lo, top, step
     f_lo, f_hi = min(mhz), max(mhz)
-    xstep = nice_step(f_hi - f_lo, 8)
-    lp.xValueAxis.valueMin, lp.xValueAxis.valueMax = f_lo, f_hi
-    first = xstep * math.ceil(f_lo / xstep - 1e-9)
-    lp.xValueAxis.valueSteps = [first + k * xstep
-                                for k in range(int((f_hi - first) / xstep + 1e-9) + 1)]
-    lp.xValueAxis.labelTextFormat = "%g"
-    lp.yValueAxis.labelTextFormat = "%g"
-    lp.xValueAxis.labels.fontSize = lp.yValueAxis.labels.fontSize = 7
-    grid = colors.Color(0.85, 0.85, 0.85)
-    lp.yValueAxis.visibleGrid = lp.xValueAxis.visibleGrid = True
-    lp.yValueAxis.gridStrokeColor = lp.xValueAxis.gridStrokeColor = grid
-    lp.yValueAxis.gridStrokeWidth = lp.xValueAxis.gridStrokeWidth = 0.3
+    px, py = frequency_axes(lp, f_lo, f_hi, (lo, top, step))
     d.add(lp)
-
-    def px(f_mhz: float) -> float:
-        return float(lp.x + (f_mhz - f_lo) / (f_hi - f_lo) * lp.width)
-
-    def py(s: float) -> float:
-        return float(lp.y + (s - lo) / (top - lo) * lp.height)
 
     for level in (1.5, 2.0):
         if level < top:

@@ -20,7 +20,7 @@ from ...plan import Plan
 from ...units import format_frequency
 from ..measure import change_text, change_words, figure_cells
 from .context import Context, default_paper
-from .electrical import BLUE, GREY, RED, nice_step, swr_axis
+from .electrical import BLUE, GREY, RED, frequency_axes, nice_step, swr_axis
 
 __all__ = ["comparison_section", "comparison_pdf", "TITLE", "MAX_PLOTTED"]
 
@@ -71,27 +71,9 @@ def _plot(ctx: Context, c: Comparison, ylabel: str, measured: Sequence[float] | 
     if measured is not None:
         lp.lines[1].strokeColor = colors.Color(*BLUE)
         lp.lines[1].strokeWidth = 1.2
-    lp.yValueAxis.valueMin, lp.yValueAxis.valueMax, lp.yValueAxis.valueStep = lo, top, step
     f_lo, f_hi = mhz[0], mhz[-1]
-    xstep = nice_step(f_hi - f_lo, 8)
-    lp.xValueAxis.valueMin, lp.xValueAxis.valueMax = f_lo, f_hi
-    first = xstep * math.ceil(f_lo / xstep - 1e-9)
-    lp.xValueAxis.valueSteps = [first + n * xstep
-                                for n in range(int((f_hi - first) / xstep + 1e-9) + 1)]
-    lp.xValueAxis.labelTextFormat = "%g"
-    lp.yValueAxis.labelTextFormat = "%g"
-    lp.xValueAxis.labels.fontSize = lp.yValueAxis.labels.fontSize = 7
-    grid = colors.Color(0.85, 0.85, 0.85)
-    lp.yValueAxis.visibleGrid = lp.xValueAxis.visibleGrid = True
-    lp.yValueAxis.gridStrokeColor = lp.xValueAxis.gridStrokeColor = grid
-    lp.yValueAxis.gridStrokeWidth = lp.xValueAxis.gridStrokeWidth = 0.3
+    px, py = frequency_axes(lp, f_lo, f_hi, (lo, top, step))
     d.add(lp)
-
-    def px(f_mhz: float) -> float:
-        return float(lp.x + (f_mhz - f_lo) / (f_hi - f_lo) * lp.width)
-
-    def py(v: float) -> float:
-        return float(lp.y + (v - lo) / (top - lo) * lp.height)
 
     for level in levels:
         if lo < level < top:
