@@ -3,8 +3,6 @@
 from __future__ import annotations
 
 import math
-import subprocess
-import sys
 
 import numpy as np
 import pytest
@@ -283,14 +281,6 @@ def test_pairs_within_far_apart_points_and_the_rank_fallback(monkeypatch):
     assert {tuple(p) for p in pairs_within(pts, 1.5).tolist()} == want
     line = np.c_[np.arange(50.0), np.zeros(50), np.zeros(50)]
     assert {tuple(p) for p in pairs_within(line, 2.0).tolist()} == _kd_pairs(line, 2.0)
-
-
-def test_importing_numeric_loads_no_scipy():
-    # common practice, no source: the point of the module is a light import
-    code = "import sys, fabplan.numeric; print(any(m.startswith('scipy') for m in sys.modules))"
-    out = subprocess.run([sys.executable, "-c", code], capture_output=True, text=True,
-                         check=True)
-    assert out.stdout.strip() == "False"
 
 
 def test_pairs_within_at_a_radius_equal_to_a_rounded_distance():

@@ -28,6 +28,8 @@ from dataclasses import dataclass
 
 import numpy as np
 
+from ..special import ellipkm1
+
 __all__ = ["SegmentSet", "Block", "block_geometry", "block_halves", "segment_distance",
            "exact_kernel_correction", "COMBO", "SWAP", "CHARGE_SIGN"]
 
@@ -235,8 +237,6 @@ def _correction_moments(li: np.ndarray, lj: np.ndarray, c: np.ndarray, a2: np.nd
                         levels: int) -> np.ndarray:
     """(K_exact - K_reduced)/(4 pi) moments (x l_i l_j) of collinear pairs whose source
     starts `c` along the line after the observer's start (see exact_kernel_correction)."""
-    from scipy.special import ellipkm1
-
     # y = s - s' runs over [-(c + lj), li - c]; breakpoints where W changes form, and 0
     y_lo = -(c + lj)
     y_hi = li - c

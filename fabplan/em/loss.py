@@ -28,6 +28,8 @@ import math
 
 import numpy as np
 
+from ..special import ive, kve
+
 __all__ = ["MU0", "skin_depth", "surface_resistance", "internal_impedance"]
 
 MU0 = 4e-7 * math.pi  # H/m (the classical value; the 2019 SI value differs by 1e-10)
@@ -49,8 +51,6 @@ def internal_impedance(f_hz: float, radius_m: float, resistivity_ohm_m: float,
 
     `wall_m` None or >= radius: solid wire; otherwise a tube with that wall.
     """
-    from scipy.special import ive, kve
-
     a = radius_m
     rho = resistivity_ohm_m
     if f_hz <= 0:
