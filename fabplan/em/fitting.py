@@ -68,6 +68,7 @@ DEFAULT_INITIAL = 7  # first solves, Chebyshev-Lobatto over the band
 DEFAULT_MAX_SOLVES = 48
 AAA_RTOL = 1e-13  # AAA stops when every sample is matched to this (relative)
 _SCAN = 4096  # dense grid for roots and minima of the fitted function
+TOUCH_TOL = 1e-6  # |X| / |Z| below which a reactance that touches zero counts as a zero
 _EDGE = 1e-12  # relative slack at the band's ends
 
 
@@ -366,6 +367,47 @@ class FittedSweep:
                 root, done = self._polish(root, component)
             r = float(self.values(np.array([root]), component)[0].real)
             out.append(Resonance(root, r, kind, done))
+        out.extend(self._touches(f, x, component, {r.f_hz for r in out}))
+        out.sort(key=lambda r: r.f_hz)
+        # a reactance that dips a hair through zero and back (round-off around a touch)
+        # is one touch, reported once at the middle, as when it stays a hair above
+        merged: list[Resonance] = []
+        step = float(f[1] - f[0])
+        for res in out:
+            if merged and res.f_hz - merged[-1].f_hz <= step and res.kind != merged[-1].kind:
+                mid = 0.5 * (res.f_hz + merged[-1].f_hz)
+                z = complex(self.values(np.array([mid]), component)[0])
+                if abs(z.imag) <= TOUCH_TOL * abs(z):
+                    first = merged.pop()
+                    merged.append(Resonance(mid, z.real, first.kind, False))
+                    continue
+            merged.append(res)
+        return merged
+
+    def _touches(self, f: FloatArray, x: FloatArray, component: int,
+                 found: set[float]) -> list[Resonance]:
+        """Zeros of the reactance where it touches zero without changing sign: |X| has
+        a local minimum of at most TOUCH_TOL |Z| (a loop whose tuning capacitor was
+        solved for X = 0 where its coupling is critical touches the axis there; whether
+        round-off puts that sample a hair above or below zero must not decide whether
+        the resonance is reported)."""
+        ax = np.abs(x)
+        s = np.sign(x)
+        inner = np.nonzero((ax[1:-1] <= ax[:-2]) & (ax[1:-1] <= ax[2:])
+                           & (s[:-2] == s[1:-1]) & (s[1:-1] == s[2:]) & (s[1:-1] != 0))[0] + 1
+        out: list[Resonance] = []
+        for i in inner:
+            lo, hi = float(f[i - 1]), float(f[i + 1])
+
+            def size(q: float) -> float:
+                return abs(float(self.values(np.array([q]), component)[0].imag))
+
+            q = _golden_min(size, lo, hi, 1e-13 * hi)
+            z = complex(self.values(np.array([q]), component)[0])
+            if abs(z.imag) > TOUCH_TOL * abs(z) or q in found:
+                continue
+            kind: Literal["series", "parallel"] = "series" if x[i] > 0 else "parallel"
+            out.append(Resonance(q, z.real, kind, False))
         return out
 
     def _polish(self, f0: float, component: int) -> tuple[float, bool]:

@@ -19,6 +19,7 @@ import numpy as np
 from ..feed import MatchChain
 from ..measure.analysis import Band, swr_bands
 from ..numeric import brentq, minimize_bounded
+from .fitting import TOUCH_TOL
 from .records import UNCERTAINTY_FRAC, SweepResult
 
 __all__ = ["Model", "Progress", "least_swr", "resonance", "bandwidths", "analyse", "SWR_LEVELS",
@@ -81,7 +82,7 @@ def resonance(model: Model, freqs: np.ndarray, z: np.ndarray, near_hz: float,
     x = z.imag
     idx = np.nonzero(np.sign(x[:-1]) * np.sign(x[1:]) <= 0)[0]
     if len(idx) == 0:
-        return None
+        return _touch(model, freqs, z, near_hz, rel_tol)
     rising = [i for i in idx if x[i] < x[i + 1]]
     pool = rising or list(idx)
     i = min(pool, key=lambda k: abs(0.5 * (freqs[k] + freqs[k + 1]) - near_hz))
@@ -91,6 +92,29 @@ def resonance(model: Model, freqs: np.ndarray, z: np.ndarray, near_hz: float,
         return float(freqs[i + 1])
     return float(brentq(lambda f: model.impedance(f).imag, float(freqs[i]),
                         float(freqs[i + 1]), xtol=rel_tol * float(freqs[i])))
+
+
+_TOUCH_LOOK = 1e-2  # a local minimum of |X| / |Z| below this is refined for a touch
+
+
+def _touch(model: Model, freqs: np.ndarray, z: np.ndarray, near_hz: float,
+           rel_tol: float) -> float | None:
+    """Where the reactance touches zero without changing sign (a loop whose tuning
+    capacitor was solved for X = 0 at critical coupling): the local minimum of |X|
+    nearest `near_hz` whose |X| is at most TOUCH_TOL |Z|, refined between the
+    sweep's neighbours. Whether round-off leaves that sample a hair above or below
+    zero must not decide whether the resonance is reported."""
+    ax = np.abs(z.imag)
+    inner = [i for i in range(1, len(ax) - 1) if ax[i] <= ax[i - 1] and ax[i] <= ax[i + 1]
+             and ax[i] <= _TOUCH_LOOK * abs(z[i])]
+    for i in sorted(inner, key=lambda k: abs(freqs[k] - near_hz)):
+        lo, hi = float(freqs[i - 1]), float(freqs[i + 1])
+        f_best, x_best = minimize_bounded(lambda f: abs(model.impedance(f).imag), lo, hi,
+                                          xatol=rel_tol * float(freqs[i]))
+        f_best, x_best = (f_best, x_best) if x_best <= ax[i] else (float(freqs[i]), ax[i])
+        if x_best <= TOUCH_TOL * abs(z[i]):
+            return float(f_best)
+    return None
 
 
 def bandwidths(freqs: np.ndarray, swr_sys: np.ndarray) -> tuple[Band, ...]:

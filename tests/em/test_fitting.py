@@ -228,3 +228,26 @@ def test_guided_by_the_first_component_the_others_still_fit(em_wires):
         assert np.max(np.abs(fit.values(freqs, k) - ref[:, k]) / np.abs(ref[:, k])) < 1e-6
     with pytest.raises(FabplanError, match="one component"):
         fit_sweep(both, 100e6, 200e6, guide=0)
+
+
+@pytest.mark.parametrize("offset", [0.0, 1e-12, -1e-12, 3e-9, -3e-9])
+def test_a_reactance_that_touches_zero_is_one_resonance_whatever_the_round_off(offset):
+    # common practice, no source: Z = 40 + j(k (f - f0)^2 + offset) touches X = 0 at f0 (a
+    # loop tuned by its capacitor at critical coupling); a hair above, on or a hair
+    # below the axis it is the same one resonance at f0, at R = 40 ohm
+    f0 = 14.175e6
+
+    def z(f):
+        return 40.0 + 1j * (1e-8 * (f - f0) ** 2 + offset)
+
+    fit = fit_sweep(z, 14.125e6, 14.225e6)
+    (res,) = fit.resonances()
+    assert res.f_hz == pytest.approx(f0, rel=1e-6)
+    assert res.r_ohm == pytest.approx(40.0, rel=1e-9)
+
+
+def test_a_reactance_that_stays_clear_of_zero_has_no_resonance():
+    # the touch rule must not invent one: the minimum of |X| here is 0.5 ohm
+    fit = fit_sweep(lambda f: 40.0 + 1j * (1e-8 * (f - 14.175e6) ** 2 + 0.5),
+                    14.125e6, 14.225e6)
+    assert fit.resonances() == []
