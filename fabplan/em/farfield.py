@@ -140,6 +140,9 @@ def _directions(theta: np.ndarray, phi: np.ndarray) -> FloatArray:
     return np.stack([st * np.cos(phi), st * np.sin(phi), np.cos(theta)], axis=-1)
 
 
+_POLE = 1e-4  # rad: a strongest direction this close to the z axis is reported at phi 0
+
+
 def _angles(d: np.ndarray) -> tuple[FloatArray, FloatArray]:
     """(theta, phi) in radians of unit directions (..., 3); phi in [0, 2 pi)."""
     theta = np.arccos(np.clip(d[..., 2], -1.0, 1.0))
@@ -384,6 +387,8 @@ class FarField:
         start = _directions(np.radians(theta[i]), np.radians(phi[j]))
         d, u_max = self._refine_max(start, math.radians(step_deg) / 2)
         th, ph = _angles(d)
+        if math.sin(float(th)) < _POLE:  # at the zenith or nadir phi means nothing:
+            ph = np.zeros_like(ph)  # say 0, not what round-off left in x and y
         p_rad = self.radiated_power()
         with np.errstate(divide="ignore"):
             dir_db = 10 * np.log10(4 * math.pi * u / p_rad)

@@ -406,3 +406,21 @@ def test_axial_mode_helix_against_kraus():
     left = wire_model(nodes * [-1.0, 1.0, 1.0], 5.0, closed=False, source_segments=[0],
                       ground_z_mm=0.0)
     assert ff.far_field(left.solve(F0), left).polarisation(0.0, 0.0).sense == "left"
+
+
+def test_a_strongest_direction_on_the_axis_is_reported_at_phi_zero(em_wires, monkeypatch):
+    # common practice, no source: crossed dipoles in quadrature are strongest along their
+    # common axis, where phi has no meaning; the report says phi 0 there rather than
+    # whatever direction the search's last step of round-off took (here a hair towards
+    # -x, which is phi 180 deg)
+    lag, _ = crossed_dipoles(em_wires, -90.0)
+    refine = ff.FarField._refine_max
+
+    def off_axis(self, d0, step, tol=2e-6):
+        d, u = refine(self, d0, step, tol)
+        return np.array([-1e-9, 1e-12, float(np.sign(d[2]))]), u
+
+    monkeypatch.setattr(ff.FarField, "_refine_max", off_axis)
+    p = lag.pattern()
+    assert min(p.max_theta_deg, 180.0 - p.max_theta_deg) < 0.01
+    assert p.max_phi_deg == 0.0
