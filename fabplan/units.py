@@ -307,6 +307,12 @@ def format_number(x: float, places: int = 1) -> str:
     return f"{0.0 if v == 0 else v:.{places}f}"
 
 
+def format_impedance(z: complex, places: int = 1) -> str:
+    """An impedance as `R +Xj` to `places` decimals (`40.1 +0.0j`), never "-0.0"."""
+    x = format_number(z.imag, places)
+    return f"{format_number(z.real, places)} {x if x.startswith('-') else '+' + x}j"
+
+
 def format_angle(deg: float) -> str:
     """An angle in degrees for people: one decimal at most, none when whole
     (`90`, `355.4`, `-12.5`)."""

@@ -185,3 +185,12 @@ def test_capacitance_and_voltage_for_people():
     assert format_capacitance(2.2e-6) == "2.20 uF"
     assert format_voltage(850.0) == "850 V"
     assert format_voltage(6128.8) == "6.13 kV"
+
+
+def test_impedance_format_never_shows_a_negative_zero():
+    from fabplan.units import format_impedance
+
+    assert format_impedance(complex(40.0976, -1e-12)) == "40.1 +0.0j"
+    assert format_impedance(complex(40.0976, 1e-12)) == "40.1 +0.0j"
+    assert format_impedance(complex(12.04, -3.26)) == "12.0 -3.3j"
+    assert format_impedance(complex(-0.01, 7.0), 2) == "-0.01 +7.00j"

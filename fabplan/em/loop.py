@@ -45,6 +45,7 @@ from ..antennas.small_loop import conductor_loss_ohm as skin_loss_ohm
 from ..design.electrical import ElectricalSettings
 from ..errors import FabplanError, Finding
 from ..geometry.shapes import SHAPES
+from ..units import format_impedance
 from .build import ElectricalInput, conductor, joint_count, joint_resistance_ohm
 from .records import HelixFigures, LoadFigures, LoopBandPoint, LoopFigures
 
@@ -191,7 +192,7 @@ def loop_figures(elements: Sequence[ElectricalInput], settings: ElectricalSettin
     if solved and abs(z0.imag) > REACH_FRAC * abs(z0):
         notes.append(f"no capacitance puts the feed at X = 0 (the coupling loop is coupled too "
                      f"weakly for that); the capacitor is set nearest resonance, where the feed "
-                     f"sees {z0.real:.1f} {z0.imag:+.1f}j ohm")
+                     f"sees {format_impedance(z0)} ohm")
     if swr0 > COUPLING_SWR:
         findings.append(Finding(
             "loop-coupling-mismatch", "warning",

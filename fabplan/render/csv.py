@@ -9,7 +9,7 @@ from collections.abc import Iterable
 
 from ..em.records import SweepResult
 from ..plan import Plan
-from ..units import IN
+from ..units import IN, format_number
 
 __all__ = ["SWEEP_COLUMNS", "sweep_csv", "plan_sweep_csv", "order_csv"]
 
@@ -28,7 +28,8 @@ def sweep_csv(sweeps: Iterable[tuple[str, SweepResult]]) -> str:
     w.writerow(SWEEP_COLUMNS)
     for name, s in sweeps:
         for f, z, a, b in zip(s.freq_hz, s.z_ohm, s.swr_terminals, s.swr_system):
-            w.writerow([name, f"{f:.1f}", f"{z.real:.4f}", f"{z.imag:.4f}", _swr(a), _swr(b)])
+            w.writerow([name, f"{f:.1f}", format_number(z.real, 4), format_number(z.imag, 4),
+                        _swr(a), _swr(b)])
     return buf.getvalue()
 
 

@@ -180,8 +180,8 @@ def _electrical(el: ElementElectrical, d: dict[str, Any]) -> None:
     out.update({
         "bandwidth_edges_hz": {
             f"{b.level:g}": (None if not b.reached else
-                             [None if b.lower is None else b.lower.frequency_hz,
-                              None if b.upper is None else b.upper.frequency_hz])
+                             [None if b.lower is None else num(b.lower.frequency_hz, 1),
+                              None if b.upper is None else num(b.upper.frequency_hz, 1)])
             for b in el.sweep.bands},
         "bandwidth_beyond_sweep": {
             f"{b.level:g}": [side for side, beyond in (("lower", b.lower_beyond_sweep),

@@ -13,7 +13,7 @@ from ..drilling.records import DrillPattern
 from ..em.records import FarFieldFigures, HelixFigures, LoopFigures
 from ..geometry.shapes.quadrifilar import Params as QfhParams
 from ..plan import ElementPlan, Plan
-from ..units import format_capacitance, format_frequency, format_voltage
+from ..units import format_capacitance, format_frequency, format_impedance, format_voltage
 
 __all__ = ["loop_lines", "helix_lines", "circular_lines", "mast_of", "qfh_lines",
            "capacitor_to_buy", "RATING_MARGIN"]
@@ -71,7 +71,7 @@ def loop_lines(lf: LoopFigures) -> list[str]:
         ("coupling loop", f"rule of thumb {lf.coupling_rule_diameter_mm:.0f} mm diameter [P]"
          + ("" if lf.coupling_diameter_mm is None else
             f", drawn {lf.coupling_diameter_mm:.0f} mm")
-         + f"; the model: {lf.feed_z_ohm.real:.1f} {lf.feed_z_ohm.imag:+.1f}j ohm, SWR "
+         + f"; the model: {format_impedance(lf.feed_z_ohm)} ohm, SWR "
            f"{lf.feed_swr:.2f}"),
     ]
     width = max(len(r[0]) for r in rows)

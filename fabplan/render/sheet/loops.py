@@ -12,7 +12,13 @@ from typing import Any
 
 from ...em.records import LoopFigures, StructureElectrical
 from ...geometry.shapes.quadrifilar import Params as QfhParams
-from ...units import format_capacitance, format_frequency, format_number, format_voltage
+from ...units import (
+    format_capacitance,
+    format_frequency,
+    format_impedance,
+    format_number,
+    format_voltage,
+)
 from ..loops import RATING_MARGIN, mast_of
 from .context import Context
 
@@ -116,7 +122,7 @@ def _loop(ctx: Context, lf: LoopFigures) -> list[Any]:
     crows = [["rule of thumb", f"{ctx.L(lf.coupling_rule_diameter_mm)} diameter: "
                                f"{lf.coupling_rule_basis}"],
              ["as drawn", drawn],
-             ["the model", f"{lf.feed_z_ohm.real:.1f} {lf.feed_z_ohm.imag:+.1f}j ohm at "
+             ["the model", f"{format_impedance(lf.feed_z_ohm)} ohm at "
                            f"resonance, SWR {lf.feed_swr:.2f}"]]
     out.append(ctx.p(f"Coupling loop ({', '.join(lf.coupling)})", ctx.h3))
     out += ctx.table(["", "value"], crows, [0.22, 0.78], "ll")
