@@ -203,3 +203,21 @@ def test_estimate_and_compare_json_carry_their_format(cli, example_path):
 
 def test_same_plan_same_text(example_plan):
     assert plan_to_json(example_plan) == plan_to_json(example_plan)
+
+
+def test_no_figure_carries_round_off_digits(plans):
+    # every figure is rounded for people and for stable files (at most 12 significant
+    # digits: 0.1 Hz of a GHz); the SWR band edges once came out with 17
+    def floats(x):
+        if isinstance(x, dict):
+            for v in x.values():
+                yield from floats(v)
+        elif isinstance(x, list):
+            for v in x:
+                yield from floats(v)
+        elif isinstance(x, float):
+            yield x
+
+    for plan in plans:
+        noisy = [v for v in floats(plan_to_dict(plan)) if float(f"{v:.12g}") != v]
+        assert noisy == [], plan.design.source
