@@ -35,6 +35,7 @@ from collections.abc import Sequence
 from dataclasses import dataclass
 
 from ..errors import DesignError
+from ..numeric import brentq
 from .common import require_positive, wavelength_mm
 
 __all__ = ["TaperResult", "average_impedance_ohm", "equivalent_uniform", "tip_length_for"]
@@ -138,8 +139,6 @@ def tip_length_for(inner_sections: Sequence[tuple[float, float]], tip_diameter_m
     the uniform design element of `reference_diameter_mm` (e.g. from TN 688).
     Returns the stepped element with its tip length in the last section.
     """
-    from scipy.optimize import brentq  # type: ignore[import-untyped, unused-ignore]
-
     inner = _check_sections(inner_sections) if inner_sections else []
     require_positive("tip_diameter_mm", tip_diameter_mm)
     require_positive("uniform_length_mm", uniform_length_mm)

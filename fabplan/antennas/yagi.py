@@ -44,6 +44,7 @@ import math
 from dataclasses import dataclass
 
 from ..errors import DesignError
+from ..numeric import brentq
 from .common import require_positive, require_range, wavelength_mm
 
 __all__ = ["Tn688Design", "TN688", "TN688_SOURCE", "TN688_DIAMETER_WL", "YagiElement",
@@ -128,8 +129,6 @@ def _check_diameter(field: str, diameter_wl: float) -> None:
 
 def resonant_length_wl(diameter_wl: float) -> float:
     """Length (wavelengths) at which a dipole of `diameter_wl` has zero reactance."""
-    from scipy.optimize import brentq  # type: ignore[import-untyped, unused-ignore]
-
     _check_diameter("diameter_wl", diameter_wl)
     return float(brentq(lambda L: dipole_reactance_ohm(L, diameter_wl), 0.40, 0.50, xtol=1e-12))
 
@@ -140,8 +139,6 @@ def equal_reactance_length_wl(length_wl: float, diameter_wl: float,
 
     The diameter correction of a parasitic element (see SOURCES).
     """
-    from scipy.optimize import brentq  # type: ignore[import-untyped, unused-ignore]
-
     require_range("length_wl", length_wl, 0.3, 0.55, "parasitic elements near a half wave")
     _check_diameter("diameter_wl", diameter_wl)
     _check_diameter("new_diameter_wl", new_diameter_wl)
