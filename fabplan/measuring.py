@@ -42,9 +42,13 @@ through the model's gap between the two features.
 Adjustable dimensions (`Adjustable`) each carry a function that changes one
 model set-up (`Setup`: the elements modelled together, the electrical
 settings and the shapes' params by element name) to a new value: the fed
-element's governing length (its shape's `governing`), and the value of every
-fixed capacitor modelled with it. Other dimensions (a matching device's, a
-boom's) are added in `adjustables`.
+element's governing length (its shape's `governing`), its matching device's
+(a hairpin's legs, modelled as wires; a gamma or T rod's length and its
+capacitor when the design fixes one, modelled as a transmission line and read
+through it as the plan's check reads it), and the value of every fixed
+capacitor modelled with it. A matching device is corrected within MATCH_RANGE
+of its value; a dimension that cannot put the feature on target alone is left
+out with a note, the others stand.
 """
 
 from __future__ import annotations
@@ -60,13 +64,13 @@ import numpy.typing as npt
 
 from .design.electrical import ElectricalSettings
 from .em.build import ElectricalInput, groups
+from .em.devices import Through, line_match
 from .em.records import UNCERTAINTY_FRAC, SweepResult
-from .em.stage import ModelFactory, structure_model_of
+from .em.stage import ModelFactory, design_frequency, structure_model_of
 from .em.sweep import least_swr, resonance
 from .errors import DesignError, FabplanError, Finding
 from .feed import Direct, Line, MatchChain
 from .geometry.shapes import SHAPES
-from .geometry.shapes.base import TunedValue
 from .logs import log
 from .measure.analysis import DEFAULT_LEVELS, Band, SweepAnalysis, analyse_sweep
 from .measure.csvsweep import read_csv_sweep
@@ -82,7 +86,8 @@ __all__ = [
     "FEATURE_KINDS", "SINGLE_KINDS", "BRACKET_FRAC", "TOLERANCE_FRAC", "FeatureKind",
     "SingleKind", "Feature", "Setup", "Adjustable", "Correction", "ArticleCorrection",
     "HistoryCorrection", "Between", "Figure", "Comparison", "Measurement", "setup_of",
-    "adjustables", "governing_dimension", "capacitor_dimensions", "model_feature_hz",
+    "adjustables", "governing_dimension", "match_dimensions", "capacitor_dimensions",
+    "model_feature_hz", "DesignValue",
     "correct", "correct_single", "correct_by_history", "stages_between", "measure",
     "history_record", "predicted_s1p", "S1P_PLANES", "S1pPlane", "read_sweep_text",
     "HistoryStatus", "history_status", "design_values", "TOUCHSTONE_SUFFIXES",
@@ -97,6 +102,7 @@ S1pPlane = Literal["radio", "element"]
 S1P_PLANES: tuple[S1pPlane, ...] = ("radio", "element")
 
 BRACKET_FRAC = 0.04  # the first search for a feature: +-4 % around where it is expected
+MATCH_RANGE = 2.0  # a matching device's dimension is corrected within 1/2 to 2 times its value
 TOLERANCE_FRAC = 2e-6  # a chord solve stops when the model is this close (0.9 kHz at 440 MHz)
 MAX_CHORD_STEPS = 8
 STEP_FRAC = 0.005  # central differences: +-0.5 % of the dimension
@@ -164,6 +170,9 @@ class Setup:
 
 
 AdjustmentUnit = Literal["mm", "pF"]
+# a value as fabplan.design.rewrite writes it: ("length", mm), ("number", x) or
+# ("capacitance", F)
+DesignValue = tuple[Literal["length", "number", "capacitance"], float]
 
 
 @dataclass(frozen=True)
@@ -178,7 +187,8 @@ class Adjustable:
     design_values(value): the element-table keys that carry it, for
     fabplan.design.rewrite (None when it is written by hand); cut_change_mm(value):
     the change of the element's cut length (mm) at `value` (None when the cut
-    length does not follow it).
+    length does not follow it); upper: values at or above this are refused (a
+    matching device is corrected within MATCH_RANGE of its value, not redesigned).
     """
 
     name: str
@@ -187,9 +197,10 @@ class Adjustable:
     value: float
     step: float
     apply: Callable[[Setup, float], Setup]
-    design_values: Callable[[float], dict[str, TunedValue]] | None = None
+    design_values: Callable[[float], Mapping[str, DesignValue]] | None = None
     cut_change_mm: Callable[[float], float] | None = None
     lower: float = 0.0
+    upper: float = math.inf
 
 
 def setup_of(plan: Plan, element: ElementPlan, settings: ElectricalSettings) -> Setup:
@@ -220,7 +231,7 @@ def governing_dimension(plan: Plan, element: ElementPlan) -> Adjustable:
                                f"{bad[0].message}", field=key, value=round(v, 3))
         return setup.with_params(name, params)
 
-    def design_values(v: float) -> dict[str, TunedValue]:
+    def design_values(v: float) -> Mapping[str, DesignValue]:
         return shape.tuned_keys(shape.with_governing(spec.params, v))
 
     def cut_change(v: float) -> float:
@@ -255,15 +266,92 @@ def capacitor_dimensions(setup: Setup) -> tuple[Adjustable, ...]:
             return s.with_input(dataclasses.replace(current, spec=spec))
 
         pf = cap.capacitance_f * 1e12
-        out.append(Adjustable("capacitance", name, "pF", pf, STEP_FRAC * pf, apply))
+        out.append(Adjustable("capacitance", name, "pF", pf, STEP_FRAC * pf, apply,
+                              lambda v: {"capacitor.capacitance": ("capacitance", v * 1e-12)}))
+    return tuple(out)
+
+
+def match_dimensions(plan: Plan, element: ElementPlan, setup: Setup) -> tuple[Adjustable, ...]:
+    """The fed element's matching device: a hairpin's legs (its part's governing
+    length, modelled as wires), or a gamma or T rod's length (the strap's place)
+    and its capacitor when the design fixes one (modelled as a transmission line,
+    fabplan.em.devices). Each is written into `[element.match]`."""
+    m = element.spec.match
+    if m is None:
+        return ()
+    name = element.name
+    out: list[Adjustable] = []
+    if not m.line_modelled:
+        part = next((e for e in plan.elements if e.spec.part_of == name), None)
+        if part is None or not any(e.name == part.name for e in setup.group):
+            return ()
+        shape = SHAPES[part.spec.shape]
+        _, legs = shape.governing(part.spec.params)
+        diameter = plan.design.stock_of(part.spec).profile.outer_diameter_mm
+        cut_now = sum(p.cut_length_mm for p in part.pieces)
+        part_name, part_spec = part.name, part.spec
+
+        def apply_legs(s: Setup, v: float) -> Setup:
+            params = shape.with_governing(s.params_of(part_name), v)
+            bad = [f for f in shape.problems(params, diameter) if f.severity == "error"]
+            if bad:
+                raise FabplanError(f"at match.length = {v:.2f} mm the hairpin cannot be made: "
+                                   f"{bad[0].message}", field="match.length", value=round(v, 3))
+            return s.with_params(part_name, params)
+
+        def cut_change(v: float) -> float:
+            new = dataclasses.replace(part_spec, params=shape.with_governing(part_spec.params,
+                                                                              v))
+            return sum(p.cut_length_mm for p in core_element(plan.design, new)[1]) - cut_now
+
+        out.append(Adjustable("match.length", name, "mm", legs, STEP_FRAC * legs, apply_legs,
+                              lambda v: {"match.length": ("length", v)}, cut_change,
+                              legs / MATCH_RANGE, legs * MATCH_RANGE))
+        return tuple(out)
+
+    def apply_match(s: Setup, length_mm: float | None = None,
+                    capacitance_f: float | None = None) -> Setup:
+        current = next(x for x in s.group if x.name == name)
+        spec_m = current.spec.match
+        if spec_m is None:  # not reached: the element had its match
+            return s
+        if length_mm is not None:
+            if not length_mm > 0:
+                raise FabplanError("a rod's length is positive", field="match.length",
+                                   value=round(length_mm, 3))
+            spec_m = dataclasses.replace(spec_m, length_mm=length_mm)
+        if capacitance_f is not None:
+            if not capacitance_f > 0:
+                raise FabplanError("a capacitance is positive", field="match.capacitance",
+                                   value=round(capacitance_f * 1e12, 4))
+            spec_m = dataclasses.replace(spec_m, capacitance_f=capacitance_f)
+        spec = dataclasses.replace(current.spec, match=spec_m)
+        return s.with_input(dataclasses.replace(current, spec=spec))
+
+    def apply_rod(s: Setup, v: float) -> Setup:
+        return apply_match(s, length_mm=v)
+
+    out.append(Adjustable("match.length", name, "mm", m.length_mm, STEP_FRAC * m.length_mm,
+                          apply_rod, lambda v: {"match.length": ("length", v)}, None,
+                          m.length_mm / MATCH_RANGE, m.length_mm * MATCH_RANGE))
+    if m.capacitance_f is not None:
+        pf = m.capacitance_f * 1e12
+
+        def apply_cap(s: Setup, v_pf: float) -> Setup:
+            return apply_match(s, capacitance_f=v_pf * 1e-12)
+
+        out.append(Adjustable("match.capacitance", name, "pF", pf, STEP_FRAC * pf, apply_cap,
+                              lambda v: {"match.capacitance": ("capacitance", v * 1e-12)},
+                              None, pf / MATCH_RANGE, pf * MATCH_RANGE))
     return tuple(out)
 
 
 def adjustables(plan: Plan, element: ElementPlan, setup: Setup) -> tuple[Adjustable, ...]:
     """The dimensions a builder can change on `element`'s antenna: its governing
-    length first, then each fixed capacitor modelled with it. (A matching
-    device's dimensions and other elements' lengths are added here.)"""
-    return (governing_dimension(plan, element),) + capacitor_dimensions(setup)
+    length first, then its matching device's (`match_dimensions`), then each fixed
+    capacitor modelled with it."""
+    return ((governing_dimension(plan, element),) + match_dimensions(plan, element, setup)
+            + capacitor_dimensions(setup))
 
 
 # -- the model's features ----------------------------------------------------------------------
@@ -329,6 +417,7 @@ class _Evaluator:
         self.setup, self.factory, self.f_max_hz = setup, factory, f_max_hz
         self.models = 0
         self._cache: dict[tuple[str, str, float], Any] = {}
+        self._solved_cap: float | None = None
 
     def model(self, adj: Adjustable | None, value: float) -> Any:
         key = ("", "", 0.0) if adj is None else (adj.element, adj.name, float(value))
@@ -338,13 +427,38 @@ class _Evaluator:
                                    f"{value:.4g} {adj.unit}: the model cannot follow the "
                                    "measurement that far; check the set-up",
                                    field=adj.name, value=round(value, 4))
+            if adj is not None and not value < adj.upper:
+                raise FabplanError(f"it would take more than {MATCH_RANGE:g} times its "
+                                   f"value ({value:.4g} {adj.unit}): a matching device is "
+                                   "corrected here, not redesigned; correct another "
+                                   "dimension, or redesign the match with `fabplan tune`",
+                                   field=adj.name, value=round(value, 4))
             s = self.setup if adj is None else adj.apply(self.setup, value)
-            model = self.factory(s.group, s.settings, self.f_max_hz, dict(s.overrides))
+            model = self._through(self.factory(s.group, s.settings, self.f_max_hz,
+                                               dict(s.overrides)), s)
             self.models += 1
             if len(self._cache) >= _CACHE:
                 self._cache.pop(next(iter(self._cache)))
             self._cache[key] = model
         return self._cache[key]
+
+    def _through(self, model: Any, s: Setup) -> Any:
+        """`model` seen through the set-up's gamma or T match, as the plan's check sees
+        it (fabplan.em.stage): a capacitor the design leaves open is the one the check
+        solved at the design frequency for the design as drawn, and the article was
+        built with it, so it stays at that value when another dimension changes."""
+        device = line_match(s.group)
+        if device is None:
+            return model
+        if device.capacitance_f is None:
+            if self._solved_cap is None:
+                base = model if s is self.setup else self.model(None, 0.0).model
+                f0 = design_frequency(self.setup.settings)
+                self._solved_cap = line_match(self.setup.group).solved_for(  # type: ignore[union-attr]
+                    complex(base.impedance(f0)), f0).capacitance_f or 0.0
+            if self._solved_cap > 0:
+                device = dataclasses.replace(device, capacitance_f=self._solved_cap, solved=True)
+        return Through(model, device)
 
     def feature(self, adj: Adjustable | None, value: float, feature: Feature,
                 expect_hz: float, span_frac: float = BRACKET_FRAC) -> float:
@@ -443,6 +557,7 @@ class ArticleCorrection:
     corrections: tuple[Correction, ...]
     models_built: int
     notes: tuple[str, ...] = ()
+    unreached: tuple[tuple[str, str], ...] = ()  # (dimension, why) of those left out
 
     @property
     def relative_difference(self) -> float:
@@ -456,6 +571,10 @@ class ArticleCorrection:
         for c in self.corrections:
             if c.dimension == dimension:
                 return c
+        for name, why in self.unreached:
+            if name == dimension:
+                raise DesignError(f"cannot put the {self.goal.name} on target alone: {why}",
+                                  field="--adjust", value=dimension)
         names = ", ".join(c.dimension for c in self.corrections)
         raise DesignError(f"not an adjustable dimension of this design ({names})",
                           field="--adjust", value=dimension)
@@ -498,34 +617,55 @@ def correct(plan: Plan, element: ElementPlan, settings: ElectricalSettings,
     f_t0 = f_k0 if goal == measured else ev.feature(
         None, 0.0, goal, _expect_hz(element, goal, target_hz), span)
     out: list[Correction] = []
+    skipped: list[str] = []
+    unreached: list[tuple[str, str]] = []
     article_goal = measured_hz
     for adj in dims:
-        # the article's equivalent value: the model reproduces the measurement there
-        s_k = ev.slope(adj, adj.value, measured, f_k0)
-        if not (math.isfinite(s_k) and s_k != 0):
-            raise FabplanError(f"the model's {measured.name} does not move with {adj.name}: "
-                               "it cannot correct it", field=adj.name)
-        v_a, _ = ev.solve(adj, measured, measured_hz, adj.value, f_k0, s_k)
-        # the goal feature there, and the sensitivity at the measured point
-        if goal == measured:
-            f_ta = measured_hz
-        else:
-            f_ta = ev.feature(adj, v_a, goal, f_t0 + (measured_hz - f_k0), span)
-        s_t = ev.slope(adj, v_a, goal, f_ta)
-        if not (math.isfinite(s_t) and s_t != 0):
-            raise FabplanError(f"the model's {goal.name} does not move with {adj.name}: "
-                               "it cannot correct it", field=adj.name)
-        v_star, f_star = ev.solve(adj, goal, target_hz, v_a, f_ta, s_t)
-        change = v_star - v_a
-        cut = adj.cut_change_mm(adj.value + change) if adj.cut_change_mm is not None else None
         if adj is dims[0]:
-            article_goal = f_ta
-        out.append(Correction(adj.name, adj.element, adj.unit, adj.value, v_a, change,
-                              measured_unc_hz / abs(s_k), s_t, cut, f_star))
-    notes = _notes(measured, goal, measured_hz, f_k0, f_t0, article_goal)
+            got = _correct_one(ev, adj, measured, measured_hz, target_hz, goal, f_k0, f_t0,
+                               span, measured_unc_hz)
+            article_goal = got[1]
+        else:
+            try:
+                got = _correct_one(ev, adj, measured, measured_hz, target_hz, goal, f_k0,
+                                   f_t0, span, measured_unc_hz)
+            except FabplanError as exc:  # a matching device's dimension may not reach
+                skipped.append(f"{adj.name} of {adj.element!r} alone cannot put the "
+                               f"{goal.name} on target: {exc.rule}")
+                unreached.append((adj.name, exc.rule))
+                log.debug("measure: %s skipped: %s", adj.name, exc)
+                continue
+        out.append(got[0])
+    notes = _notes(measured, goal, measured_hz, f_k0, f_t0, article_goal) + tuple(skipped)
     return ArticleCorrection(element.name, target_hz, goal, measured, measured_hz,
                              measured_unc_hz, f_k0, f_t0, article_goal, tuple(out), ev.models,
-                             notes)
+                             notes, tuple(unreached))
+
+
+def _correct_one(ev: _Evaluator, adj: Adjustable, measured: Feature, measured_hz: float,
+                 target_hz: float, goal: Feature, f_k0: float, f_t0: float, span: float,
+                 measured_unc_hz: float) -> tuple[Correction, float]:
+    """One dimension's correction, and the article's goal feature (Hz) it implies."""
+    # the article's equivalent value: the model reproduces the measurement there
+    s_k = ev.slope(adj, adj.value, measured, f_k0)
+    if not (math.isfinite(s_k) and s_k != 0):
+        raise FabplanError(f"the model's {measured.name} does not move with {adj.name}: "
+                           "it cannot correct it", field=adj.name)
+    v_a, _ = ev.solve(adj, measured, measured_hz, adj.value, f_k0, s_k)
+    # the goal feature there, and the sensitivity at the measured point
+    if goal == measured:
+        f_ta = measured_hz
+    else:
+        f_ta = ev.feature(adj, v_a, goal, f_t0 + (measured_hz - f_k0), span)
+    s_t = ev.slope(adj, v_a, goal, f_ta)
+    if not (math.isfinite(s_t) and s_t != 0):
+        raise FabplanError(f"the model's {goal.name} does not move with {adj.name}: "
+                           "it cannot correct it", field=adj.name)
+    v_star, f_star = ev.solve(adj, goal, target_hz, v_a, f_ta, s_t)
+    change = v_star - v_a
+    cut = adj.cut_change_mm(adj.value + change) if adj.cut_change_mm is not None else None
+    return (Correction(adj.name, adj.element, adj.unit, adj.value, v_a, change,
+                       measured_unc_hz / abs(s_k), s_t, cut, f_star), f_ta)
 
 
 def _notes(measured: Feature, goal: Feature, measured_hz: float, f_k0: float, f_t0: float,
@@ -614,11 +754,16 @@ def correct_by_history(plan: Plan, element: ElementPlan, settings: ElectricalSet
                     max(BRACKET_FRAC, 1.5 * abs(goal_hz / target_hz - 1)))
     out = []
     for adj in dims:
-        s = ev.slope(adj, adj.value, goal, f0)
-        if not (math.isfinite(s) and s != 0):
-            raise FabplanError(f"the model's {goal.name} does not move with {adj.name}",
-                               field=adj.name)
-        v, f = ev.solve(adj, goal, goal_hz, adj.value, f0, s)
+        try:
+            s = ev.slope(adj, adj.value, goal, f0)
+            if not (math.isfinite(s) and s != 0):
+                raise FabplanError(f"the model's {goal.name} does not move with {adj.name}",
+                                   field=adj.name)
+            v, f = ev.solve(adj, goal, goal_hz, adj.value, f0, s)
+        except FabplanError:
+            if adj is dims[0]:
+                raise
+            continue  # a matching device's dimension may not reach: the others stand
         change = v - adj.value
         cut = adj.cut_change_mm(v) if adj.cut_change_mm is not None else None
         unc = 0.0
@@ -954,7 +1099,7 @@ def history_status(records: Sequence[HistoryRecord], element: str, feature: str,
 
 
 def design_values(plan: Plan, element: ElementPlan, settings: ElectricalSettings,
-                  correction: Correction) -> dict[str, TunedValue]:
+                  correction: Correction) -> Mapping[str, DesignValue]:
     """The element-table keys and values that write `correction` into the
     design file (fabplan.design.rewrite.rewrite_element)."""
     setup = setup_of(plan, element, settings)
@@ -982,9 +1127,14 @@ def predicted_s1p(result: SweepResult, chain: MatchChain, element: str,
         raise DesignError("the plane is 'radio' or 'element'", field="plane", value=plane)
     f = np.asarray(result.freq_hz, dtype=float)
     z = np.asarray(result.z_ohm, dtype=complex)
+    # a gamma or T match is in the sweep already (its input is the model's feed
+    # point); its words lead the sweep's `matching`
+    device = result.matching.split(", then ")[0] if ", then " in result.matching else None
     if plane == "radio":
         z = np.asarray(chain.at_radio(z, f), dtype=complex)
-        where = f"at the radio end of: {chain.describe()}"
+        where = f"at the radio end of: {result.matching}"
+    elif device is not None:
+        where = f"at the input of the {device} (no balun or transformer, no feed line)"
     else:
         where = "at the element's terminals (no matching, no feed line)"
     comments = [f"predicted by the fabplan model for element {element}"[:200],

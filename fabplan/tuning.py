@@ -104,8 +104,17 @@ class MeasuredResult:
     advice: str
 
 
+def _is_fed(e: ElementPlan) -> bool:
+    """Fed at a gap, or through a gamma or T match on a whole element (the model's
+    feed at its centre, read through the device)."""
+    m = e.spec.match
+    return e.spec.capacitor is None and e.spec.part_of is None and (
+        e.feed_gap_mm is not None or (m is not None and m.line_modelled))
+
+
 def fed_element(plan: Plan, name: str | None) -> ElementPlan:
-    """The element to tune: `name`, or the only element with a feed gap."""
+    """The element to tune: `name`, or the only element with a feed gap (or a gamma or
+    T match)."""
     if name is not None:
         try:
             element = plan.element(name)
@@ -113,13 +122,14 @@ def fed_element(plan: Plan, name: str | None) -> ElementPlan:
             names = ", ".join(e.name for e in plan.elements)
             raise DesignError(f"no element of that name (elements: {names})", field="--element",
                               value=name) from None
-        if element.feed_gap_mm is None:
-            raise DesignError("has no feed gap: only fed elements have an impedance to tune",
-                              field="--element", value=name)
+        if not _is_fed(element):
+            raise DesignError("has no feed gap or gamma or T match: only fed elements have an "
+                              "impedance to tune", field="--element", value=name)
         return element
-    fed = [e for e in plan.elements if e.feed_gap_mm is not None and e.spec.capacitor is None]
+    fed = [e for e in plan.elements if _is_fed(e)]
     if not fed:
-        raise DesignError("no element has a feed gap: nothing to tune", field="element")
+        raise DesignError("no element has a feed gap or a gamma or T match: nothing to tune",
+                          field="element")
     if len(fed) > 1:
         raise DesignError("several elements have a feed gap: choose one with --element "
                           f"({', '.join(e.name for e in fed)})", field="--element")

@@ -246,8 +246,18 @@ def test_a_fixed_capacitor_is_an_adjustable_dimension():
     assert c.change == pytest.approx(c_a * ((measured / 14.1e6) ** 2 - 1), rel=1e-3)
     assert c.unit == "pF" and c.cut_change_mm is None and c.direction in ("increase",
                                                                           "decrease")
-    with pytest.raises(DesignError, match="by hand"):
-        measuring.design_values(plan, e, d.electrical, c)
+    # -o writes it into the loop's own [element.capacitor] table, comments kept
+    values = measuring.design_values(plan, e, d.electrical, c)
+    assert values == {"capacitor.capacitance": ("capacitance",
+                                                pytest.approx(c.new_value * 1e-12))}
+    from fabplan.design.rewrite import rewrite_element
+
+    text, changes = rewrite_element(LOOPS, d, c.element, values)
+    assert changes == {"capacitor.capacitance": f"{c.new_value:.2f} pF"}
+    again = parse_design(text)
+    cap = next(x.capacitor for x in again.elements if x.name == "loop")
+    assert cap is not None and cap.capacitance_f == pytest.approx(c.new_value * 1e-12,
+                                                                  abs=0.005e-12)
 
 
 # -- fabplan issue 14 on the bundled example ----
@@ -396,3 +406,71 @@ def test_history_record_and_status():
     assert measuring.history_status(back, "fd", "least-swr", 440e6) is None
     assert recs[0].adjustments[0].dimension == "side"
     assert recs[0].adjustments[0].after == pytest.approx(r1.corrections[0].new_value)
+
+
+# -- a matching device's dimensions (issue 14: hairpin legs, gamma rod and capacitor) ------
+def _gamma_beam_text(beam_example_path) -> str:
+    """The beam example with a gamma match on a whole driven element instead of the
+    hairpin on a split one (dimensions from `fabplan tune` on it)."""
+    text = beam_example_path.read_text()
+    start, end = text.index("[element.match]"), text.index('[[element]]\nname = "director"')
+    text = (text[:start] + '[element.match]\nkind = "gamma"\nlength = "105.313 mm"\n'
+            'spacing = "30 mm"\ncapacitance = "5.81 pF"\n\n' + text[end:])
+    return (text.replace('feed_gap = "25 mm"', "")
+            .replace('length = "942.6 mm"', 'length = "867.192 mm"'))
+
+
+def test_a_gamma_matched_element_is_fed_and_its_rod_and_capacitor_correct(beam_example_path):
+    # common practice, no source: a gamma match feeds a whole element; its rod (the
+    # strap's place) and its capacitor are adjusted like the element's length. The model's
+    # least SWR read through the gamma (transmission-line model) is the plan's own; an
+    # article 1 % high is lengthened, and -o writes the rod into [element.match]
+    from fabplan.design.rewrite import rewrite_element
+
+    text = _gamma_beam_text(beam_example_path)
+    d = parse_design(text)
+    plan = make_plan(d)
+    e = fed_element(plan, None)
+    assert e.name == "driven" and e.feed_gap_mm is None
+    setup = measuring.setup_of(plan, e, d.electrical)
+    dims = measuring.adjustables(plan, e, setup)
+    assert [(a.name, a.unit) for a in dims] == [("length", "mm"), ("match.length", "mm"),
+                                                ("match.capacitance", "pF")]
+    goal = measuring.Feature("least-swr", d.electrical.chain)
+    model_hz = e.electrical.sweep.min_swr_hz
+    r = measuring.correct(plan, e, d.electrical, goal, 1.01 * model_hz, 145e6, goal)
+    assert r.model_measured_hz == pytest.approx(model_hz, rel=2e-5)
+    length, rod, cap = r.corrections
+    assert length.change > 0 and rod.change > 0 and cap.change > 0  # all lower it
+    for c in r.corrections:
+        assert c.goal_after_hz == pytest.approx(145e6, rel=1e-4)
+    values = measuring.design_values(plan, e, d.electrical, rod)
+    new_text, changes = rewrite_element(text, d, rod.element, values)
+    assert changes == {"match.length": f"{rod.new_value:.3f} mm"}
+    m = next(x.match for x in parse_design(new_text).elements if x.name == "driven")
+    assert m is not None and m.length_mm == pytest.approx(rod.new_value, abs=0.01)
+
+
+def test_hairpin_legs_are_corrected_within_their_range(beam_plan, beam_example_path):
+    # the hairpin sets the match's resistance more than its frequency: moving the least
+    # SWR 1 % by the legs alone would take them past twice their length, which is a
+    # redesign (`fabplan tune`), not a correction; the element's length still corrects
+    d = load_design(beam_example_path)
+    e = fed_element(beam_plan, None)
+    setup = measuring.setup_of(beam_plan, e, d.electrical)
+    (legs,) = measuring.match_dimensions(beam_plan, e, setup)
+    assert (legs.name, legs.element, legs.value) == ("match.length", "driven",
+                                                     pytest.approx(54.9))
+    assert (legs.lower, legs.upper) == (pytest.approx(54.9 / 2), pytest.approx(54.9 * 2))
+    assert legs.design_values is not None and legs.cut_change_mm is not None
+    assert legs.design_values(60.0) == {"match.length": ("length", 60.0)}
+    assert legs.cut_change_mm(60.0) == pytest.approx(2 * 5.1, abs=0.05)  # both legs
+    goal = measuring.Feature("least-swr", d.electrical.chain)
+    r = measuring.correct(beam_plan, e, d.electrical, goal,
+                          0.99 * e.electrical.sweep.min_swr_hz, 145e6, goal)
+    assert [c.dimension for c in r.corrections] == ["length"]
+    assert r.corrections[0].change < 0
+    assert [name for name, _ in r.unreached] == ["match.length"]
+    assert any("match.length of 'driven' alone cannot" in n for n in r.notes)
+    with pytest.raises(DesignError, match="fabplan tune"):
+        r.correction("match.length")

@@ -263,7 +263,9 @@ def write_corrected(design_path: Path, design: Any, plan: Any, element: Any, set
     from ..measuring import design_values
 
     values = design_values(plan, element, settings, correction)
-    new_text, changes = rewrite_element(design_text(design_path), design, element.name,
+    # the dimension's own element: the fed element's table holds its length and its
+    # match; a loop's capacitor is in the loop's table
+    new_text, changes = rewrite_element(design_text(design_path), design, correction.element,
                                         values, str(output))
     write_one_text(output, new_text, force)
     shown = ", ".join(f'{k} = "{v}"' for k, v in changes.items())

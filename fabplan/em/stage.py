@@ -44,7 +44,7 @@ from .records import (
 from .sweep import Progress, analyse
 
 __all__ = ["ModelFactory", "electrical", "check_structure", "structure_model_of",
-           "plan_electrical", "DEFAULT_POWER_W", "CUT_STEP_DEG"]
+           "plan_electrical", "design_frequency", "DEFAULT_POWER_W", "CUT_STEP_DEG"]
 
 # a minimum of SWR is "broad" when it rises by less than BROAD_SWR within +-BROAD_FRAC
 BROAD_FRAC = 0.01
@@ -98,6 +98,15 @@ def _group_names(elements: Sequence[ElectricalInput]) -> str:
     return ", ".join(e.name for e in elements)
 
 
+def design_frequency(settings: ElectricalSettings) -> float:
+    """The frequency (Hz) the check solves the structure at for its far field and a
+    gamma or T match's open capacitor: the target, or the sweep's middle."""
+    if settings.target_hz is not None:
+        return float(settings.target_hz)
+    freqs = settings.frequencies()
+    return 0.5 * (float(freqs[0]) + float(freqs[-1]))
+
+
 def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSettings, *,
                     progress: Progress | None = None,
                     factory: ModelFactory = structure_model_of
@@ -111,8 +120,7 @@ def check_structure(elements: Sequence[ElectricalInput], settings: ElectricalSet
 
     freqs = settings.frequencies()
     f_lo, f_hi = float(freqs[0]), float(freqs[-1])
-    f0 = settings.target_hz if settings.target_hz is not None else 0.5 * (f_lo + f_hi)
-    f0 = min(max(f0, f_lo), f_hi) if f_lo <= f0 <= f_hi else f0
+    f0 = design_frequency(settings)
     band_top = settings.band_hz[1] if settings.band_hz is not None else f0
     model = factory(elements, settings, max(f_hi, f0, band_top), {})
     fed = [e.name for e in elements if e.fed]
