@@ -1014,9 +1014,40 @@ def measure(plan: Plan, element: ElementPlan, settings: ElectricalSettings,
                            "SWR lies at an end of the sweep; sweep a wider span around the "
                            "target")
     measured, f_meas, f_unc = next((x for x in found if x[0] == goal), found[0])
+    tuned = [e.name for e in setup.group
+             if e.spec.capacitor is not None and e.spec.capacitor.capacitance_f is None]
+    if tuned and dimensions is None:
+        return Measurement(comparison, None,
+                           _tuned_note(ev, tuned[0], measured, f_meas, target, m_an))
     correction = correct(plan, element, settings, measured, f_meas, target, goal,
                          measured_unc_hz=f_unc, dimensions=dimensions, evaluator=ev)
     return Measurement(comparison, correction)
+
+
+def _tuned_note(ev: _Evaluator, loop: str, measured: Feature, f_meas: float, target: float,
+                m_an: SweepAnalysis) -> str:
+    """What a first article says when a capacitor solved for resonance tunes the
+    antenna: no length moves its frequency; the model's capacitance at the target
+    and at the article's feature, and the match."""
+    note = (f"no length correction: the capacitor of {loop!r} is solved for resonance at "
+            "the target, so it tunes this antenna and no length moves its frequency: turn "
+            "it to the frequency")
+    model = ev.model(None, 0.0)
+    tuning = getattr(getattr(model, "model", model), "tuning_capacitance", None)
+    if tuning is not None and measured.kind == "resonance":
+        try:
+            at_target, at_article = tuning(target), tuning(f_meas)
+        except FabplanError:
+            pass
+        else:
+            note += (f". The model needs {at_target * 1e12:.2f} pF for {target / 1e6:.4f} MHz "
+                     f"and {at_article * 1e12:.2f} pF for the article's resonance at "
+                     f"{f_meas / 1e6:.4f} MHz: compare them with the capacitor's setting")
+    swr = m_an.least_swr.swr
+    if math.isfinite(swr) and swr > 1.5:
+        note += (f". Least SWR {swr:.2f} measured: for the match, resize or move the coupling "
+                 "loop (`fabplan tune` says the coupling loop's effect)")
+    return note
 
 
 # -- reading the sweep ---------------------------------------------------------------------------

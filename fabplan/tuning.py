@@ -41,7 +41,7 @@ from .logs import log
 from .plan import ElementPlan, Plan, core_element, electrical_input
 
 __all__ = ["TuneResult", "MarkChange", "MeasuredResult", "feature_hz", "tune",
-           "from_measurement", "proportional_length", "tuned_values", "fed_element",
+           "from_measurement", "proportional_length", "tuned_values", "fed_element", "is_fed",
            "Goal", "parse_goal", "Change", "BeamFigures", "BeamTuneResult", "tune_beam",
            "driven_element", "beam_values"]
 
@@ -104,7 +104,7 @@ class MeasuredResult:
     advice: str
 
 
-def _is_fed(e: ElementPlan) -> bool:
+def is_fed(e: ElementPlan) -> bool:
     """Fed at a gap, or through a gamma or T match on a whole element (the model's
     feed at its centre, read through the device)."""
     m = e.spec.match
@@ -122,11 +122,11 @@ def fed_element(plan: Plan, name: str | None) -> ElementPlan:
             names = ", ".join(e.name for e in plan.elements)
             raise DesignError(f"no element of that name (elements: {names})", field="--element",
                               value=name) from None
-        if not _is_fed(element):
+        if not is_fed(element):
             raise DesignError("has no feed gap or gamma or T match: only fed elements have an "
                               "impedance to tune", field="--element", value=name)
         return element
-    fed = [e for e in plan.elements if _is_fed(e)]
+    fed = [e for e in plan.elements if is_fed(e)]
     if not fed:
         raise DesignError("no element has a feed gap or a gamma or T match: nothing to tune",
                           field="element")

@@ -30,7 +30,7 @@ from fabplan.measure import (
     sweep_from_impedance,
 )
 from fabplan.plan import make_plan
-from fabplan.tuning import fed_element
+from fabplan.tuning import fed_element, is_fed
 
 DATA = Path(__file__).parent / "measure" / "data"
 K = 0.96  # the stand-in's total length is K wavelengths at resonance
@@ -432,6 +432,7 @@ def test_a_gamma_matched_element_is_fed_and_its_rod_and_capacitor_correct(beam_e
     plan = make_plan(d)
     e = fed_element(plan, None)
     assert e.name == "driven" and e.feed_gap_mm is None
+    assert [x.name for x in plan.elements if is_fed(x)] == ["driven"]  # build --measured
     setup = measuring.setup_of(plan, e, d.electrical)
     dims = measuring.adjustables(plan, e, setup)
     assert [(a.name, a.unit) for a in dims] == [("length", "mm"), ("match.length", "mm"),

@@ -218,8 +218,10 @@ def measurement_for_build(plan: Any, measured: str | None, reading: Mapping[str,
             raise DesignError(f"--{given[0].replace('_', '-')} describes the sweep of "
                               "--measured SWEEP", field=f"--{given[0].replace('_', '-')}")
         return None
+    from ..tuning import is_fed
+
     settings = _electrical(plan.design)
-    fed = [e for e in plan.elements if e.feed_gap_mm is not None]
+    fed = [e for e in plan.elements if is_fed(e)]
     if len(fed) != 1:
         raise DesignError("the build sheet compares a sweep of the one fed element: compare "
                           "several with `fabplan measure --element NAME --pdf`",

@@ -387,3 +387,26 @@ def test_kinds_and_units_on_the_command_line_match_the_library():
     assert measure.SINGLE_KINDS == measuring.SINGLE_KINDS
     assert measure.FREQUENCY_UNITS == FREQUENCY_UNITS
     assert set(measure.TUNE_FOR) == set(TUNE_FOR)
+
+
+def test_a_capacitor_tuned_loop_is_compared_and_told_to_turn_its_capacitor(
+        cli, tmp_path, loop_example_plan):
+    # common practice, no source: the capacitor tunes a small loop; no length moves its
+    # frequency, so the first article gets the comparison and no cut correction (it used
+    # to stop on a correction of the coupling loop that could not settle, and
+    # `build --measured` counted the capacitor's gap as a second feed)
+    from fabplan.commands.measure import predicted_files
+
+    design = Path(loop_example_plan.design.source)
+    sweep = tmp_path / "article.s1p"
+    sweep.write_bytes(predicted_files(loop_example_plan)["predicted.s1p"])
+    r = cli("measure", design, sweep, "--history", tmp_path / "h.jsonl")
+    assert r.returncode == 0, r.stderr
+    assert "no length correction: the capacitor of 'main loop'" in r.stdout
+    assert "Correction for the next cut" not in r.stdout
+    out = tmp_path / "out"
+    r = cli("build", design, "--measured", sweep, "-o", out)
+    assert r.returncode in (0, 1), r.stderr
+    with pdfplumber.open(out / "build-sheet.pdf") as doc:
+        assert any("First article: measured against predicted" in (p.extract_text() or "")
+                   for p in doc.pages)
