@@ -98,6 +98,8 @@ __all__ = [
     "analyse_sweep",
 ]
 
+TOUCH_FRAC = 1e-3  # |X| / |Z| at or below which X that does not cross zero touches it
+
 DEFAULT_LEVELS: tuple[float, ...] = (1.5, 2.0)
 DEFAULT_WINDOW = 7
 # candidate regions for the parabola at least SWR: the samples within each fraction of the way
@@ -474,6 +476,8 @@ def _crossings(f: FloatArray, z: npt.NDArray[np.complex128], window: int
         rising = x0 < 0 <= x1
         if not (rising or x0 > 0 >= x1):
             continue
+        if x1 == 0 and i + 2 < len(f) and np.sign(x[i + 2]) == np.sign(x0):
+            continue  # X comes to zero and goes back: a touch, not a crossing
         fc, f_step, f_noise, t, _ = _crossing(f, x, i, 0.0, window)
         h = float(f[i + 1] - f[i])
         rc = float(r[i] + t * (r[i + 1] - r[i]))
@@ -554,7 +558,14 @@ def analyse_sweep(freq_hz: npt.ArrayLike, *, swr: npt.ArrayLike | None = None,
                         "resonance) in this sweep")
         else:
             xs = z.imag[np.isfinite(z.imag)]
-            if len(xs) and np.all(xs < 0):
+            ok = np.isfinite(z)
+            k = int(np.argmin(np.where(ok, np.abs(z.imag), np.inf))) if np.any(ok) else 0
+            touch = bool(np.any(ok)) and abs(z.imag[k]) <= TOUCH_FRAC * abs(z[k])
+            if touch:
+                note = (f"X comes to zero at {f[k] / 1e6:.4f} MHz without crossing it (a "
+                        "touch: a capacitor-tuned loop at critical coupling does this); no "
+                        "crossing to read a resonance from")
+            elif len(xs) and np.all(xs < 0):
                 note = ("X stays negative (capacitive) over the whole sweep: a series resonance "
                         "lies above it")
             elif len(xs) and np.all(xs > 0):

@@ -201,3 +201,15 @@ def test_bad_analysis_input_is_refused(kwargs, match):
         analyse_sweep(f, swr=np.full(len(f), 1.5), **args)
     with pytest.raises(DesignError, match="no band"):
         analyse_sweep([1e6, 2e6, 3e6], swr=[2, 1.2, 2]).band(3.0)
+
+
+@pytest.mark.parametrize(("offset", "words"), [
+    (0.0, "without crossing it"), (1e-9, "without crossing it"),
+    (5.0, "stays positive")])
+def test_a_reactance_that_touches_zero_is_said_so(offset, words):
+    # common practice, no source: a capacitor-tuned loop at critical coupling brings X to
+    # zero at one frequency without crossing it; that is not "a resonance lies below"
+    f = np.linspace(14.125e6, 14.225e6, 41)
+    z = 40.0 + 1j * (1e-8 * (f - 14.175e6) ** 2 + offset)
+    a = analyse_sweep(f, z_ohm=z)
+    assert a.resonance is None and words in a.resonance_note
