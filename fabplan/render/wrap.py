@@ -42,6 +42,7 @@ from .fullscale.tiling import (
     row_name,
     tile_count,
 )
+from .glyphs import printable_canvas
 
 __all__ = ["wrap_layout", "wrap_pdf", "drilling_pdf", "TAB_MM", "END_MM"]
 
@@ -249,7 +250,7 @@ def wrap_pdf(patterns: Sequence[DrillPattern], title: str, paper: str = "a4",
     layouts = [(p.name, wrap_layout(p, den)) for p in patterns]
     total = sum(_pages(lay, paper) for _, lay in layouts)
     buf = io.BytesIO()
-    c = canvas.Canvas(buf, invariant=1, pageCompression=1, initialFontName=FONT,
+    c = printable_canvas(canvas.Canvas)(buf, invariant=1, pageCompression=1, initialFontName=FONT,
                       initialFontSize=8)
     c.setViewerPreference("PrintScaling", "None")
     c.setTitle(f"{title}: wrap-around drilling templates")

@@ -14,6 +14,7 @@ from typing import Any
 from ...errors import DesignError
 from ...plan import Plan
 from ...units import format_length, format_mm
+from ..glyphs import printable, printable_canvas
 from .arrange import Tiling, tile_layout
 from .fonts import FONT, FONT_BOLD, register_fonts, text_width_mm
 from .layout import Item, Layout, build_layout, wrap_text
@@ -105,7 +106,7 @@ def draw_items(c: Any, items: list[Item], dx_pt: float, dy_pt: float,
         u = {"start": 0.0, "end": -it.tw, "middle": -it.tw / 2}[it.anchor] * k
         v = -0.35 * it.size if it.anchor == "middle" else 0.0
         t.setTextTransform(ca, sa, -sa, ca, X(x) + u * ca - v * sa, Y(y) + u * sa + v * ca)
-        t.textOut(words)
+        t.textOut(printable(words))
     c.drawText(t)
 
 
@@ -188,7 +189,7 @@ def _document(plan: Plan, paper: str, overlap_mm: float) -> bytes:
     buf = io.BytesIO()
     # the canvas's first font is the embedded one, so that no page refers to a
     # standard font the PDF does not carry
-    c = canvas.Canvas(buf, invariant=1, pageCompression=1, initialFontName=FONT,
+    c = printable_canvas(canvas.Canvas)(buf, invariant=1, pageCompression=1, initialFontName=FONT,
                       initialFontSize=8)
     c.setViewerPreference("PrintScaling", "None")
     c.setTitle(f"{plan.design.project}: full-scale template")

@@ -16,6 +16,7 @@ from __future__ import annotations
 
 from functools import lru_cache
 
+from ..glyphs import printable
 from .papers import PT_PER_MM
 
 __all__ = ["FONT", "FONT_BOLD", "register_fonts", "text_width_mm", "ASCENT", "DESCENT"]
@@ -51,4 +52,5 @@ def text_width_mm(text: str, size_pt: float, bold: bool = False) -> float:
     from reportlab.pdfbase import pdfmetrics
 
     register_fonts()
-    return float(pdfmetrics.stringWidth(text, FONT_BOLD if bold else FONT, size_pt)) / PT_PER_MM
+    return float(pdfmetrics.stringWidth(printable(text), FONT_BOLD if bold else FONT,
+                                        size_pt)) / PT_PER_MM

@@ -7,6 +7,7 @@ from typing import Any
 from ...plan import Plan
 from ...units import LengthUnit, format_drawing_length, format_inches, format_mm
 from ..fullscale.papers import PAPERS, PT_PER_MM
+from ..glyphs import printable
 
 __all__ = ["Context", "esc", "default_paper", "short_name", "NAME_LIMIT"]
 
@@ -105,6 +106,7 @@ class Context:
                 return c
             # short figures stay plain text (quick to lay out); anything that
             # might not fit its column wraps as a paragraph
+            c = printable(c)
             if "\n" not in c and stringWidth(c, "Helvetica", 8) <= w - 7:
                 return c
             return Paragraph(esc(c), self.cellr if a == "r" else self.cell)
@@ -132,4 +134,6 @@ class Context:
 
 
 def esc(text: object) -> str:
-    return str(text).replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
+    """`text` for a paragraph: its markup characters escaped, and what the font
+    cannot draw replaced (fabplan.render.glyphs)."""
+    return printable(str(text)).replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")

@@ -18,6 +18,7 @@ from ... import __version__
 from ...errors import DesignError
 from ...plan import Plan
 from ..fullscale.papers import PT_PER_MM, SHEET_PAPERS, paper_size
+from ..glyphs import printable_canvas
 from . import core
 from .boom import boom
 from .context import Context, default_paper
@@ -67,7 +68,7 @@ def sheet_pdf(plan: Plan, paper: str | None = None,
 
     project = plan.design.project
 
-    class NumberedCanvas(canvas.Canvas):  # type: ignore[misc]  # reportlab has no types
+    class NumberedCanvas(printable_canvas(canvas.Canvas)):  # type: ignore[misc]
         """Defers pages so that each can say "page N of M"."""
 
         def __init__(self, *args: Any, **kwargs: Any) -> None:
