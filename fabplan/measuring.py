@@ -1046,7 +1046,7 @@ def _tuned_note(ev: _Evaluator, loop: str, measured: Feature, f_meas: float, tar
     swr = m_an.least_swr.swr
     if math.isfinite(swr) and swr > 1.5:
         note += (f". Least SWR {swr:.2f} measured: for the match, resize or move the coupling "
-                 "loop (`fabplan tune` says the coupling loop's effect)")
+                 "loop (`fabplan tune` sizes it for least SWR in the model)")
     return note
 
 

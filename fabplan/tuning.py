@@ -43,7 +43,8 @@ from .plan import ElementPlan, Plan, core_element, electrical_input
 __all__ = ["TuneResult", "MarkChange", "MeasuredResult", "feature_hz", "tune",
            "from_measurement", "proportional_length", "tuned_values", "fed_element", "is_fed",
            "Goal", "parse_goal", "Change", "BeamFigures", "BeamTuneResult", "tune_beam",
-           "driven_element", "beam_values"]
+           "driven_element", "beam_values", "CouplingTuneResult", "tuned_loop",
+           "tune_coupling"]
 
 TOLERANCE_FRAC = 2e-5  # tuning stops when the model's frequency is this close to the target
 MAX_ITERATIONS = 12
@@ -184,8 +185,9 @@ class _Evaluator:
                  if e.spec.capacitor is not None and e.spec.capacitor.capacitance_f is None]
         if tuned:
             raise DesignError(f"{tuned[0]!r} has a capacitor solved for resonance at the target: "
-                              "the capacitor tunes it, no length does (for the match, resize or "
-                              "move the coupling loop)", field="--element", value=element.name)
+                              "the capacitor tunes it, no length does (for the match, "
+                              "`fabplan tune` sizes the coupling loop)", field="--element",
+                              value=element.name)
         self.input: ElectricalInput = inputs[index]
 
     def __call__(self, value_mm: float, expect_hz: float, span_frac: float = BRACKET_FRAC,
@@ -837,3 +839,114 @@ def beam_values(result: BeamTuneResult) -> dict[str, dict[str, TunedValue | tupl
         out.setdefault(c.element, {})[c.key] = (
             "capacitance" if c.kind == "capacitance" else "length", c.new)
     return out
+
+
+# -- a capacitor-tuned loop: the coupling loop's size for the match ----------------------------
+COUPLING_RANGE = (0.5, 2.0)  # the coupling loop is sized within these times its own size
+COUPLING_SCAN = 9  # sizes tried across that range before the bounded minimiser
+
+
+@dataclass(frozen=True)
+class CouplingTuneResult:
+    """The fed (coupling) element's governing length that gives least SWR at the target
+    when the loop's capacitor is tuned for X = 0 there: `key` and its value before and
+    after (mm), the impedance (ohm), SWR and capacitor (F) before and after, and the
+    models built. `loop`: the element whose capacitor tunes; `new_params`: the fed
+    element's params after."""
+
+    element: str
+    loop: str
+    target_hz: float
+    key: str
+    old_mm: float
+    new_mm: float
+    z_before: complex
+    z_after: complex
+    swr_before: float
+    swr_after: float
+    capacitance_before_f: float | None
+    capacitance_after_f: float | None
+    models_built: int
+    new_params: Any
+
+
+def tuned_loop(plan: Plan, element: ElementPlan) -> str | None:
+    """The element modelled with `element` whose capacitor is solved for resonance (a
+    small loop tuned by its capacitor), if any."""
+    inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
+              for e in plan.elements]
+    index = plan.elements.index(element)
+    group = next(g for g in groups(inputs) if index in g)
+    for i in group:
+        cap = inputs[i].spec.capacitor
+        if cap is not None and cap.capacitance_f is None:
+            return inputs[i].name
+    return None
+
+
+def tune_coupling(plan: Plan, element: ElementPlan, settings: ElectricalSettings,
+                  target_hz: float, factory: ModelFactory = structure_model_of
+                  ) -> CouplingTuneResult:
+    """Size the coupling loop (`element`, fed) of a capacitor-tuned loop for least SWR
+    through the matching at `target_hz`, the capacitor re-solved for X = 0 there at each
+    size (the operator turns it to the frequency): a scan of COUPLING_SCAN sizes across
+    COUPLING_RANGE of the present one, then Brent's bounded minimiser between the best
+    scan point's neighbours. The published rule of thumb (the plan's coupling-loop
+    figure) is where the design starts; this is the model's answer."""
+    from .numeric import minimize_bounded
+
+    loop = tuned_loop(plan, element)
+    if loop is None:
+        raise DesignError("no capacitor tunes this element's antenna", field="--element",
+                          value=element.name)
+    shape = SHAPES[element.spec.shape]
+    key, v0 = shape.governing(element.spec.params)
+    diameter = plan.design.stock_of(element.spec).profile.outer_diameter_mm
+    inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
+              for e in plan.elements]
+    index = plan.elements.index(element)
+    group = [inputs[i] for i in next(g for g in groups(inputs) if index in g)]
+    f_max = max(settings.sweep_to_hz, target_hz)
+    f = np.array([target_hz])
+    models = [0]
+    cache: dict[float, tuple[complex, float, float | None]] = {}
+
+    def at(v: float) -> tuple[complex, float, float | None]:
+        if v not in cache:
+            params = shape.with_governing(element.spec.params, v)
+            if any(p.severity == "error" for p in shape.problems(params, diameter)):
+                cache[v] = (complex(0.0), float("inf"), None)
+            else:
+                model = factory(group, settings, f_max, {element.name: params})
+                models[0] += 1
+                try:
+                    sol = model.solve_tuned(target_hz)
+                except FabplanError:
+                    cache[v] = (complex(0.0), float("inf"), None)
+                else:
+                    z = complex(sol.z_in)
+                    s = float(np.atleast_1d(settings.chain.swr_system(np.array([z]), f))[0])
+                    cache[v] = (z, s if np.isfinite(s) else float("inf"), sol.capacitance_f)
+        return cache[v]
+
+    lo, hi = v0 * COUPLING_RANGE[0], v0 * COUPLING_RANGE[1]
+    grid = [float(x) for x in np.geomspace(lo, hi, COUPLING_SCAN)] + [v0]
+    grid.sort()
+    k = min(range(len(grid)), key=lambda i: at(grid[i])[1])
+    a, b = grid[max(k - 1, 0)], grid[min(k + 1, len(grid) - 1)]
+    best = grid[k]
+    if a < b:
+        x, s = minimize_bounded(lambda v: at(v)[1], a, b, xatol=1e-4 * v0)
+        if s < at(best)[1]:
+            best = float(x)
+    if not np.isfinite(at(best)[1]):
+        raise FabplanError(f"no coupling-loop {key} within {COUPLING_RANGE[0]:g} to "
+                           f"{COUPLING_RANGE[1]:g} times the present one gives a match the "
+                           "model can solve", field=key)
+    z0, s0, c0 = at(v0)
+    z1, s1, c1 = at(best)
+    log.info("coupling loop %s: %s %.2f -> %.2f mm, SWR %.3f -> %.3f (%d models)",
+             element.name, key, v0, best, s0, s1, models[0])
+    return CouplingTuneResult(element.name, loop, target_hz, key, v0, best, z0, z1, s0, s1,
+                              c0, c1, models[0], shape.with_governing(element.spec.params,
+                                                                      best))

@@ -183,7 +183,6 @@ def tune(design: Path, target: str | None, measured: str | None, measured_kind: 
     """Find the element length that puts least SWR (or resonance) on target; for a beam
     with a matching device (or a --goal), the driven element and the match together."""
     from .. import tuning
-    from ..design.rewrite import rewrite_element
     from ..em.stage import plan_electrical
     from ..errors import DesignError
     from ..render.tuning import tune_text
@@ -211,6 +210,9 @@ def tune(design: Path, target: str | None, measured: str | None, measured_kind: 
                    force)
         return
     element = tuning.fed_element(plan, element_name)
+    if measured_hz is None and tuning.tuned_loop(plan, element) is not None:
+        _tune_coupling(design, d, plan, element, settings, target_hz, output, force)
+        return
     if measured_hz is not None and measured_kind is not None:
         from ..measuring import correct_single
         from ..render.measure import correction_lines
@@ -225,12 +227,7 @@ def tune(design: Path, target: str | None, measured: str | None, measured_kind: 
         r = tuning.tune(plan, element, settings, target_hz, tune_for=tune_for)
         lines = tune_text(r, d, settings)
         if output is not None:
-            new_text, changes = rewrite_element(design_text(design), d, element.name,
-                                                tuning.tuned_values(element, r.new_params),
-                                                str(output))
-            write_one_text(output, new_text, force)
-            shown = ", ".join(f"{k} = \"{v}\"" for k, v in changes.items())
-            lines += ["", f"tuned design: {shown}"]
+            lines += ["", _write_tuned(design, d, element, r.new_params, output, force)]
             if settings.target_hz is not None and settings.target_hz != target_hz:
                 lines.append(f"note: its [electrical] target is still "
                              f"{settings.target_hz / 1e6:g} MHz; only the length was changed")
@@ -270,6 +267,37 @@ def _tune_beam(design: Path, d: Any, plan: Any, settings: Any, target_hz: float,
         lines += ["", "use -o NEW.toml to write the tuned design"]
     pe = plan_electrical(settings)
     lines += [""] + [f"CAUTION: {c}" for c in pe.cautions]
+    click.echo("\n".join(lines), err=is_dash(output))
+
+
+def _write_tuned(design: Path, d: Any, element: Any, new_params: Any, output: Path,
+                 force: bool) -> str:
+    """Write the design with `element`'s tuned params (comments kept); the line that
+    says what changed."""
+    from .. import tuning
+    from ..design.rewrite import rewrite_element
+
+    new_text, changes = rewrite_element(design_text(design), d, element.name,
+                                        tuning.tuned_values(element, new_params), str(output))
+    write_one_text(output, new_text, force)
+    shown = ", ".join(f"{k} = \"{v}\"" for k, v in changes.items())
+    return f"tuned design: {shown}"
+
+
+def _tune_coupling(design: Path, d: Any, plan: Any, element: Any, settings: Any,
+                   target_hz: float, output: Path | None, force: bool) -> None:
+    """`tune` for a loop its capacitor tunes: the coupling loop's size for the match."""
+    from .. import tuning
+    from ..em.stage import plan_electrical
+    from ..render.tuning import coupling_text
+
+    r = tuning.tune_coupling(plan, element, settings, target_hz)
+    lines = coupling_text(r, d, settings)
+    if output is not None:
+        lines += ["", _write_tuned(design, d, element, r.new_params, output, force)]
+    else:
+        lines += ["", "use -o NEW.toml to write the tuned design"]
+    lines += [""] + [f"CAUTION: {c}" for c in plan_electrical(settings).cautions]
     click.echo("\n".join(lines), err=is_dash(output))
 
 

@@ -6,11 +6,17 @@ from __future__ import annotations
 from ..design.electrical import ElectricalSettings
 from ..design.model import Design
 from ..em.records import UNCERTAINTY_FRAC
-from ..tuning import BeamTuneResult, MeasuredResult, TuneResult
-from ..units import format_capacitance, format_frequency, format_length, format_signed_length
+from ..tuning import BeamTuneResult, CouplingTuneResult, MeasuredResult, TuneResult
+from ..units import (
+    format_capacitance,
+    format_frequency,
+    format_impedance,
+    format_length,
+    format_signed_length,
+)
 from .text import table
 
-__all__ = ["tune_text", "measured_text", "beam_tune_text"]
+__all__ = ["tune_text", "measured_text", "beam_tune_text", "coupling_text"]
 
 
 def _len(mm: float, d: Design) -> str:
@@ -111,3 +117,25 @@ def beam_tune_text(r: BeamTuneResult, d: Design) -> list[str]:
     u = 100 * UNCERTAINTY_FRAC
     lines.append(f"  ({r.evaluations} solves of the model; each figure +-{u:.1f} % in frequency)")
     return lines
+
+
+def coupling_text(r: CouplingTuneResult, d: Design, settings: ElectricalSettings) -> list[str]:
+    """`fabplan tune` on a capacitor-tuned loop: the coupling loop's size for the match."""
+    u = 100 * UNCERTAINTY_FRAC
+
+    def cap(c: float | None) -> str:
+        return "-" if c is None else format_capacitance(c)
+
+    rows = [["before", _len(r.old_mm, d), f"{format_impedance(r.z_before)} ohm",
+             f"{r.swr_before:.2f}", cap(r.capacitance_before_f)],
+            ["after", _len(r.new_mm, d), f"{format_impedance(r.z_after)} ohm",
+             f"{r.swr_after:.2f}", cap(r.capacitance_after_f)]]
+    return [f"Tuning {r.element!r}, the coupling loop of {r.loop!r}, for least SWR at "
+            f"{format_frequency(r.target_hz)}",
+            f"  the capacitor of {r.loop!r} tunes the frequency (solved for X = 0 at the "
+            "target at each size; turn it there): the coupling loop's size sets the match",
+            f"  matching: {settings.chain.describe()}",
+            f"  {r.key}: {_len(r.old_mm, d)} -> {_len(r.new_mm, d)} (change "
+            f"{_change(r.new_mm - r.old_mm, d)})", "",
+            table(["", r.key, "R + jX at the feed", "SWR", "capacitor"], rows, "lrrrr"),
+            f"  ({r.models_built} models; the frequency figures +-{u:.1f} %)"]
