@@ -65,7 +65,7 @@ import numpy.typing as npt
 from .design.electrical import ElectricalSettings
 from .em.build import ElectricalInput, groups
 from .em.devices import Through, line_match
-from .em.records import UNCERTAINTY_FRAC, SweepResult
+from .em.records import UNCERTAINTY_FRAC
 from .em.stage import ModelFactory, design_frequency, structure_model_of
 from .em.sweep import least_swr, resonance
 from .errors import DesignError, FabplanError, Finding
@@ -78,7 +78,7 @@ from .measure.deembed import Stage, deembed, from_matching, line_stage
 from .measure.history import Adjustment, HistoryRecord, HistorySummary, summarize
 from .measure.history import Feature as HistoryFeature
 from .measure.sweep import MeasuredSweep
-from .measure.touchstone import predicted_touchstone, read_touchstone
+from .measure.touchstone import read_touchstone
 from .numeric import brentq
 from .plan import ElementPlan, Plan, core_element, electrical_input
 
@@ -89,7 +89,7 @@ __all__ = [
     "adjustables", "governing_dimension", "match_dimensions", "capacitor_dimensions",
     "model_feature_hz", "DesignValue",
     "correct", "correct_single", "correct_by_history", "stages_between", "measure",
-    "history_record", "predicted_s1p", "S1P_PLANES", "S1pPlane", "read_sweep_text",
+    "history_record", "read_sweep_text",
     "HistoryStatus", "history_status", "design_values", "TOUCHSTONE_SUFFIXES",
 ]
 
@@ -98,8 +98,6 @@ FEATURE_KINDS: tuple[FeatureKind, ...] = ("resonance", "least-swr", "analyser-x0
 # what a single measured frequency may be said to be (`fabplan tune --measured --kind`)
 SingleKind = FeatureKind
 SINGLE_KINDS: tuple[SingleKind, ...] = FEATURE_KINDS
-S1pPlane = Literal["radio", "element"]
-S1P_PLANES: tuple[S1pPlane, ...] = ("radio", "element")
 
 BRACKET_FRAC = 0.04  # the first search for a feature: +-4 % around where it is expected
 MATCH_RANGE = 2.0  # a matching device's dimension is corrected within 1/2 to 2 times its value
@@ -1144,33 +1142,3 @@ def design_values(plan: Plan, element: ElementPlan, settings: ElectricalSettings
             return adj.design_values(correction.new_value)
     raise DesignError("not an adjustable dimension of this element", field="--adjust",
                       value=correction.dimension)
-
-
-# -- the predicted sweep as a Touchstone file --------------------------------------------------
-def predicted_s1p(result: SweepResult, chain: MatchChain, element: str,
-                  plane: str = "radio") -> str:
-    """The model's sweep as a one-port Touchstone file (version 1.1, RI, MHz) of
-    S11 against the system impedance, for overlaying in an analyser's software:
-    at the radio end of the matching chain (through the matching device and the
-    design's feed line, as the analyser sees the antenna there), or at the
-    element's terminals."""
-    if plane not in S1P_PLANES:
-        raise DesignError("the plane is 'radio' or 'element'", field="plane", value=plane)
-    f = np.asarray(result.freq_hz, dtype=float)
-    z = np.asarray(result.z_ohm, dtype=complex)
-    # a gamma or T match is in the sweep already (its input is the model's feed
-    # point); its words lead the sweep's `matching`
-    device = result.matching.split(", then ")[0] if ", then " in result.matching else None
-    if plane == "radio":
-        z = np.asarray(chain.at_radio(z, f), dtype=complex)
-        where = f"at the radio end of: {result.matching}"
-    elif device is not None:
-        where = f"at the input of the {device} (no balun or transformer, no feed line)"
-    else:
-        where = "at the element's terminals (no matching, no feed line)"
-    comments = [f"predicted by the fabplan model for element {element}"[:200],
-                where[:200],
-                f"S11 against {chain.system_ohm:g} ohm; predicted frequencies carry about "
-                f"+-{100 * UNCERTAINTY_FRAC:.1f} %"]
-    comments = [c.encode("ascii", "replace").decode("ascii") for c in comments]
-    return predicted_touchstone(f, z, chain.system_ohm, comments=comments)

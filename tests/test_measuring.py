@@ -30,6 +30,7 @@ from fabplan.measure import (
     sweep_from_impedance,
 )
 from fabplan.plan import make_plan
+from fabplan.render.touchstone import predicted_s1p
 from fabplan.tuning import fed_element, is_fed
 
 DATA = Path(__file__).parent / "measure" / "data"
@@ -334,7 +335,7 @@ def test_the_predicted_s1p_reads_back_to_the_same_figures(example_plan, plane):
     el = next(e for e in example_plan.elements if e.electrical is not None)
     sw = el.electrical.sweep
     chain = example_plan.design.electrical.chain
-    text = measuring.predicted_s1p(sw, chain, el.name, plane)
+    text = predicted_s1p(sw, chain, el.name, plane)
     back = read_touchstone(text, "predicted.s1p")
     assert back.z0_ohm == chain.system_ohm  # the system's reference impedance
     f = np.array(sw.freq_hz)
@@ -353,7 +354,7 @@ def test_the_predicted_s1p_reads_back_to_the_same_figures(example_plan, plane):
         assert got.least_swr.frequency_hz == pytest.approx(sw.min_swr_hz,
                                                            abs=got.least_swr.frequency_unc_hz)
     assert len(back.freq_hz) == len(f)
-    assert text == measuring.predicted_s1p(sw, chain, el.name, plane)  # same bytes
+    assert text == predicted_s1p(sw, chain, el.name, plane)  # same bytes
 
 
 # -- comparing ----

@@ -139,7 +139,7 @@ def sweep(design: Path, f_from: str | None, f_to: str | None, f_step: str | None
     if csv_path is not None:
         write_one_text(csv_path, sweep_csv(sweeps), force, "--csv")
     if s1p_path is not None:
-        from ..measuring import predicted_s1p
+        from ..render.touchstone import predicted_s1p
 
         if len(sweeps) != 1:
             raise DesignError("a .s1p file holds one port: choose the element with --element",

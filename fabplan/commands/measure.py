@@ -235,7 +235,7 @@ def predicted_files(plan: Any) -> dict[str, bytes]:
     predicted-NAME.s1p per element."""
     import re
 
-    from ..measuring import predicted_s1p
+    from ..render.touchstone import predicted_s1p
 
     fed = [e for e in plan.elements if e.electrical is not None]
     if plan.design.electrical is None or not fed:
