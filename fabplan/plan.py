@@ -35,7 +35,7 @@ from .em.records import ElementElectrical, PlanElectrical
 from .em.stage import electrical
 from .errors import Finding
 from .estimate.records import ElementEstimate, Order
-from .estimate.stage import estimate
+from .estimate.stage import Support, estimate
 from .forming.ends import resolve_ends
 from .forming.records import ElementForming
 from .forming.stage import StockModel, form_piece, stock_model
@@ -199,7 +199,7 @@ def make_plan(design: Design) -> Plan:
                                     for f in dataclasses.fields(PieceCore)}, forming=forming))
         formed.append(tuple(out))
     # estimate
-    est = estimate(design, list(zip(specs, cores)))
+    est = estimate(design, list(zip(specs, cores)), _supports(design))
     findings += est.findings
     # jig
     jig = layout_jig(design.project, [JigPiece(_piece_name(spec, p), p, p.forming)
@@ -297,3 +297,12 @@ def jig_for(plan: Plan, settings: JigSettings) -> JigLayout:
     """The plan's jigs laid out again with other `[jig]` settings (nothing else
     changes: the jig stage reads only the pieces and their forming figures)."""
     return layout_jig(plan.design.project, jig_pieces(plan), settings)
+
+
+def _supports(design: Design) -> tuple[Support, ...]:
+    """What the elements mount on, cut from stock of its own: the boom."""
+    b = design.boom
+    if b is None:
+        return ()
+    return (Support("boom", b.stock.catalogue, b.stock.description,
+                    b.stock.mass_per_m_kg, b.length_mm, b.quantity),)

@@ -11,7 +11,8 @@
 
     [[purchase.offer]]        # one per stock length or source; the cheapest mix is bought
     name = "10 ft straight"
-    stock = "al-1/2x0.058"    # the stock it is for: a catalogue key (default: [stock])
+    stock = "al-1/2x0.058"    # the stock it is for: a catalogue key, the boom's too
+                              # (default: [stock])
     length = "10 ft"
     price = 18.40
     per = "piece"             # or "m", "ft", "in" (per length) or "kg", "lb" (per weight)
@@ -37,6 +38,7 @@ from ..errors import DesignError, did_you_mean
 from ..section import Section
 from ..stock.catalogue import get_stock_item
 from ..units import Currency, parse_currency, parse_mass
+from .boom import SQUARE_CATALOGUE
 
 __all__ = ["Offer", "LineItem", "PurchaseSettings", "read_purchase", "PriceUnit", "PRICE_UNITS"]
 
@@ -173,8 +175,8 @@ def _read_offer(sec: Section, default_ends: float) -> Offer:
                       bound=STOCK_BOUND)
     source = sec.string("source", "")
     stock = sec.string("stock", None)
-    if stock is not None:
-        get_stock_item(stock, sec.field("stock"))
+    if stock is not None and stock not in SQUARE_CATALOGUE:  # a square boom tube's key is
+        get_stock_item(stock, sec.field("stock"))  # its own; any other, the stock catalogue
     sec.finish()
     if 2 * ends >= length:
         where = sec.field("ends") if sec.has("ends") else "purchase.ends"

@@ -137,6 +137,7 @@ class Order:
     stock_cost: float | None
     items_cost: float | None
     unoffered: tuple[UnofferedStock, ...] = ()  # stocks with cuts and no offer for them
+    supports_weight_kg: float = 0.0  # what the elements mount on (a boom), as built
 
     @property
     def pieces_to_buy(self) -> int:
@@ -160,8 +161,8 @@ class Order:
 
     @property
     def total_weight_kg(self) -> float:
-        """The built elements and the extra items."""
-        return self.elements_weight_kg + self.items_weight_kg
+        """The built elements, what they mount on (a boom) and the extra items."""
+        return self.elements_weight_kg + self.supports_weight_kg + self.items_weight_kg
 
     @property
     def shipping_weight_kg(self) -> float:

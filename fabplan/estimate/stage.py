@@ -26,7 +26,7 @@ from .costing import piece_cost
 from .cutting import StockOption, pack, remnant_mm
 from .records import BuyLine, Cut, ElementEstimate, ItemLine, Order, StockPiece, UnofferedStock
 
-__all__ = ["EstimateResult", "estimate", "spares_for", "MAX_CUTS"]
+__all__ = ["Support", "EstimateResult", "estimate", "spares_for", "MAX_CUTS"]
 
 # Cuts in one order (every element's quantity and spares, times its pieces of stock):
 # 250 000 is twice the 100 000 parts a large production order holds, and keeps the
@@ -59,11 +59,27 @@ class _Group:
     """The cuts of one stock and the offers for it."""
 
     name: str  # "" for the design's [stock]; else its catalogue key or description
-    stock: StockSpec
+    stock: object  # the element stock (StockSpec) or a support's key
+    catalogue: str | None
+    description: str
     mass_per_m: float
     offers: list[Offer]
     lengths: list[float]
     labels: list[tuple[str, bool]]
+
+
+@dataclass(frozen=True)
+class Support:
+    """A part the elements are mounted on, cut from stock of its own (a boom): its name,
+    its stock's catalogue key (None when given by its sizes), description and mass per
+    metre (kg/m), its length (mm) and how many are built."""
+
+    name: str
+    catalogue: str | None
+    description: str
+    mass_per_m_kg: float
+    length_mm: float
+    quantity: int
 
 
 def _stock_name(design: Design, stock: StockSpec) -> str:
@@ -73,19 +89,23 @@ def _stock_name(design: Design, stock: StockSpec) -> str:
 
 
 def _groups(design: Design, elements: Sequence[tuple[ElementSpec, Sequence[PieceCore]]],
-            offers: Sequence[Offer], spares: dict[str, int]) -> list[_Group]:
+            offers: Sequence[Offer], spares: dict[str, int],
+            supports: Sequence[Support] = ()) -> list[_Group]:
     """The cuts grouped by stock, in the order the stocks first appear (the design's
-    [stock] first); each group with the offers for it: an offer naming the stock's
-    catalogue key, or (for the design's [stock]) an offer naming none."""
-    groups: dict[StockSpec, _Group] = {}
+    [stock] first, the supports' last); each group with the offers for it: an offer
+    naming the stock's catalogue key, or (for the design's [stock]) an offer naming
+    none."""
+    groups: dict[object, _Group] = {}
+
+    def offered(catalogue: str | None, is_design: bool) -> list[Offer]:
+        return [o for o in offers if (o.stock is None and is_design)
+                or (o.stock is not None and o.stock == catalogue)]
 
     def group(stock: StockSpec) -> _Group:
         if stock not in groups:
-            mine = [o for o in offers
-                    if (o.stock is None and stock == design.stock)
-                    or (o.stock is not None and o.stock == stock.catalogue)]
-            groups[stock] = _Group(_stock_name(design, stock), stock,
-                                   stock_summary(stock).mass_per_m_kg, mine, [], [])
+            groups[stock] = _Group(_stock_name(design, stock), stock, stock.catalogue,
+                                   stock.description, stock_summary(stock).mass_per_m_kg,
+                                   offered(stock.catalogue, stock == design.stock), [], [])
         return groups[stock]
 
     group(design.stock)
@@ -95,15 +115,26 @@ def _groups(design: Design, elements: Sequence[tuple[ElementSpec, Sequence[Piece
                 g = group(piece.stock.spec)
                 g.lengths.append(piece.cut_length_mm)
                 g.labels.append((_cut_name(spec, piece), n >= spec.quantity))
+    for sup in supports:
+        key = ("support", sup.catalogue or sup.description)
+        if key not in groups:
+            groups[key] = _Group(sup.catalogue or sup.description, key, sup.catalogue,
+                                 sup.description, sup.mass_per_m_kg,
+                                 offered(sup.catalogue, False) if sup.catalogue else [], [], [])
+        for _ in range(sup.quantity):
+            groups[key].lengths.append(sup.length_mm)
+            groups[key].labels.append((sup.name, False))
     return [g for g in groups.values() if g.lengths or g.stock == design.stock]
 
 
 def estimate(design: Design,
-             elements: Sequence[tuple[ElementSpec, Sequence[PieceCore]]]) -> EstimateResult:
+             elements: Sequence[tuple[ElementSpec, Sequence[PieceCore]]],
+             supports: Sequence[Support] = ()) -> EstimateResult:
     """Weights, costs and the purchase plan for `elements`: each element's spec
-    with the pieces of stock it is made of. Each stock's cuts are packed into the
-    offers for that stock (`[[purchase.offer]] stock = "..."`); the cuts of a stock
-    no offer is for are listed as not offered."""
+    with the pieces of stock it is made of, and the `supports` they mount on (a
+    boom). Each stock's cuts are packed into the offers for that stock
+    (`[[purchase.offer]] stock = "..."`); the cuts of a stock no offer is for are
+    listed as not offered."""
     settings: PurchaseSettings = design.purchase or PurchaseSettings()
     kerf = design.shop.kerf_mm
     findings: list[Finding] = []
@@ -111,7 +142,7 @@ def estimate(design: Design,
               for spec, _ in elements}
     _check_cut_count(design, elements, spares)
     offers = settings.offers
-    groups = _groups(design, elements, offers, spares)
+    groups = _groups(design, elements, offers, spares, supports)
     cost_of = {o.name: piece_cost(o.price, o.per, o.length_mm, g.mass_per_m)
                for g in groups for o in g.offers}
     costs = tuple(cost_of.get(o.name, piece_cost(o.price, o.per, o.length_mm,
@@ -132,13 +163,13 @@ def estimate(design: Design,
     for g in groups:
         if not g.offers:
             if offers and g.lengths:
-                unoffered.append(UnofferedStock(g.name or g.stock.description, len(g.lengths),
+                unoffered.append(UnofferedStock(g.name or g.description, len(g.lengths),
                                                 sum(g.lengths)))
                 findings.append(Finding(
                     "no-stock-offered", "info",
-                    f"no [[purchase.offer]] is for {g.name or g.stock.description}: its "
+                    f"no [[purchase.offer]] is for {g.name or g.description}: its "
                     f"{len(g.lengths)} cut(s) are not in the purchase plan or its cost; add an "
-                    f"offer with stock = \"{g.stock.catalogue or 'its catalogue key'}\""))
+                    f"offer with stock = \"{g.catalogue or 'its catalogue key'}\""))
             continue
         g_costs = [cost_of[o.name] for o in g.offers]
         packing = pack(g.lengths, kerf, [StockOption(o.usable_mm, c)
@@ -219,6 +250,8 @@ def estimate(design: Design,
         cut_length_mm=sum(all_lengths), stock_length_mm=stock_length,
         lower_bound_pieces=lb_pieces, lower_bound_cost=lb_cost, proven_optimal=proven,
         method=method, elements_weight_kg=built_kg,
+        supports_weight_kg=sum(x.mass_per_m_kg * x.length_mm / 1000 * x.quantity
+                               for x in supports),
         stock_weight_kg=stock_weight,
         items_weight_kg=sum(i.weight_kg for i in items),
         stock_cost=stock_cost, items_cost=sum(i.cost for i in items) if items else None,
@@ -266,3 +299,14 @@ def _check_fits(design: Design, elements: Sequence[tuple[ElementSpec, Sequence[P
                     f"{format_mm(longest.usable_mm)} ({longest.field} {longest.name!r} less its "
                     "unusable ends); offer longer stock or make the element shorter",
                     field=_element_field(design, n), source=design.source)
+    for g in groups:
+        if not isinstance(g.stock, tuple) or not g.offers:
+            continue  # elements' stock above; a support no offer is for is not bought
+        longest = max(g.offers, key=lambda o: o.usable_mm)
+        for length, (name, _) in zip(g.lengths, g.labels):
+            if length > longest.usable_mm + 1e-6:
+                raise DesignError(
+                    f"the {name}, {format_mm(length)} long, is longer than any stock offered "
+                    f"for it: the longest usable length is {format_mm(longest.usable_mm)} "
+                    f"({longest.field} {longest.name!r} less its unusable ends); offer longer "
+                    "stock", field=f"{name}.length", source=design.source)

@@ -52,6 +52,12 @@ def estimate_text(plan: Plan) -> str:
                      format_money(est.batch_cost, order.currency)])
     out.append(table(["element", "qty", "spares", "cut length", "weight each", "weight batch",
                       "cost each", "cost batch"], rows, "lrrrrrrr"))
+    if plan.boom is not None and plan.boom.bill:
+        out += ["", "Hardware (the boom and its fittings; counted here, priced when listed as "
+                    "[[purchase.item]])"]
+        out.append(table(["item", "qty", "size", "note"],
+                         [[b.item, str(b.quantity), b.size, b.note] for b in plan.boom.bill],
+                         "lrll"))
     out += ["", order_text(order, unit, den), "", "Findings", "--------", findings_text(plan)]
     return "\n".join(out) + "\n"
 

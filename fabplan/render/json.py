@@ -462,6 +462,7 @@ def order_dict(o: Order) -> dict[str, Any]:
                    "weight_kg": num(i.weight_kg, 5), "cost": num(i.cost, 2), "source": i.source}
                   for i in o.items],
         "weight_kg": {"elements": num(o.elements_weight_kg, 5), "stock": num(o.stock_weight_kg, 5),
+                      "boom": num(o.supports_weight_kg, 5),
                       "items": num(o.items_weight_kg, 5), "built": num(o.total_weight_kg, 5),
                       "shipping": num(o.shipping_weight_kg, 5)},
         "cost": {"stock": num(o.stock_cost, 2), "items": num(o.items_cost, 2),

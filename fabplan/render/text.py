@@ -298,8 +298,10 @@ def order_text(o: Order, unit: LengthUnit, den: int) -> str:
         out.append(table(["qty", "item", "weight each", "price each", "weight", "cost"], rows,
                          "rlrrrr"))
     out.append("")
+    boom = (f", boom {format_weight(o.supports_weight_kg, unit)}" if o.supports_weight_kg
+            else "")
     out.append(f"Weight built       {format_weight(o.total_weight_kg, unit)} (elements "
-               f"{format_weight(o.elements_weight_kg, unit)}, items "
+               f"{format_weight(o.elements_weight_kg, unit)}{boom}, items "
                f"{format_weight(o.items_weight_kg, unit)})")
     if o.offers:
         out.append(f"Weight to ship     {format_weight(o.shipping_weight_kg, unit)} (stock "

@@ -35,9 +35,18 @@ def test_build_writes_the_beam_and_its_drilling_template(cli, beam_example_path,
     driven = by_name["driven"]["electrical"]
     assert driven["min_swr"] < 1.2  # the tuned hairpin
     assert abs(driven["min_swr_hz"] / 145e6 - 1) < 0.01
-    # purchases per stock: the elements' rod and the hairpin's copper wire each bought
+    # purchases per stock: the elements' rod, the hairpin's copper wire and the boom's
+    # square tube each bought; the boom cut from its tube and weighed with the elements
     buy = {b["stock"] for b in plan["order"]["buy"]}
-    assert buy == {None, "awg-6"}
+    assert buy == {None, "awg-6", "al-sq-1x1/16"}
+    booms = [c for p in plan["order"]["stock_pieces"] for c in p["cuts"]
+             if c["element"] == "boom"]
+    assert [c["length_mm"] for c in booms] == [920.0]
+    w = plan["order"]["weight_kg"]
+    # source: 6063 aluminium 2700 kg/m^3 (ASTM B221 / handbook, from memory); 1 x 1/16 in
+    # square tube: (25.4^2 - 22.225^2) mm^2 = 151.2 mm^2, so 0.408 kg/m, 0.375 kg for 920 mm
+    assert w["boom"] == pytest.approx(0.375, rel=0.01)
+    assert w["built"] == pytest.approx(w["elements"] + w["boom"] + w["items"], abs=1e-5)
     with pdfplumber.open(out / BUILD_NAMES["sheet"]) as pdf:
         text = "\n".join(page.extract_text() or "" for page in pdf.pages)
     for words in ("Boom and assembly", "Drilling plan", "Hardware", "insulating shoulder",

@@ -27,21 +27,24 @@ def order(ctx: Context) -> list[Any]:
     for it in o.items:
         rows.append([short_name(it.name), "-", str(it.quantity), format_money(it.price_each, cur),
                      format_money(it.cost, cur), f"{it.weight_kg:.3f}", it.source])
+    boom = ([["boom as built", f"{o.supports_weight_kg:.3f}"]] if o.supports_weight_kg
+            else [])
     if not rows:
         return out + ctx.table(["weight", "kg"], [["elements as built",
-                                                   f"{o.elements_weight_kg:.3f}"]],
+                                                   f"{o.elements_weight_kg:.3f}"]] + boom,
                                [0.3, 0.2], "lr")
     out += ctx.table(["stock or item", "length", "qty", "each" + money_unit,
                       "cost" + money_unit, "weight kg", "source"], rows,
                      [0.2, 0.16, 0.05, 0.11, 0.11, 0.09, 0.28], "lrrrrrl",
                      caption=f"{ctx.lengths_note}; weights in kilograms; money in the "
                              "design's currency" + ("" if cur else " (no prices given)") + ".")
-    totals = [["elements as built", f"{o.elements_weight_kg:.3f} kg", ""],
-              ["stock bought", f"{o.stock_weight_kg:.3f} kg", format_money(o.stock_cost, cur)],
-              ["other items", f"{o.items_weight_kg:.3f} kg", format_money(o.items_cost, cur)],
-              ["total (built / to ship)",
-               f"{o.total_weight_kg:.3f} kg / {o.shipping_weight_kg:.3f} kg",
-               format_money(o.total_cost, cur)]]
+    totals = ([["elements as built", f"{o.elements_weight_kg:.3f} kg", ""]]
+              + [[label, f"{kg} kg", ""] for label, kg in boom]
+              + [["stock bought", f"{o.stock_weight_kg:.3f} kg", format_money(o.stock_cost, cur)],
+                 ["other items", f"{o.items_weight_kg:.3f} kg", format_money(o.items_cost, cur)],
+                 ["total (built / to ship)",
+                  f"{o.total_weight_kg:.3f} kg / {o.shipping_weight_kg:.3f} kg",
+                  format_money(o.total_cost, cur)]])
     out += ctx.table(["totals", "weight (kg)", "cost" + money_unit], totals, [0.3, 0.35, 0.2],
                      "lrr")
     if not o.pieces:
