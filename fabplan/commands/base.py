@@ -20,6 +20,7 @@ import click
 from ..errors import FabplanError
 
 __all__ = ["EXIT_FINDINGS", "EXIT_BAD_INPUT", "EXIT_INTERRUPTED", "STDIN_SOURCE", "guarded",
+           "exit_if_errors",
            "design_argument", "is_dash", "load_design_file", "design_text", "load_plan",
            "with_errors_option", "refuse_errors", "report_errors", "set_verbosity", "quiet",
            "progress", "wrote", "interrupted", "output_path", "write_one_text",
@@ -267,6 +268,13 @@ def report_errors(plan: Any) -> int:
         click.echo(f"fabplan: {len(errors)} error finding(s): not buildable as it stands",
                    err=True)
     return len(errors)
+
+
+def exit_if_errors(plan: Any) -> None:
+    """After printing a plan's figures: exit 1 when it has error findings (they are in
+    what was printed), as `check`, `build` and `jig` do."""
+    if any(f.severity == "error" for f in plan.findings):
+        sys.exit(EXIT_FINDINGS)
 
 
 def refuse_errors(plan: Any, with_errors: bool) -> bool:

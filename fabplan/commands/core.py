@@ -16,6 +16,7 @@ from .base import (
     EXIT_FINDINGS,
     check_output,
     design_argument,
+    exit_if_errors,
     guarded,
     load_plan,
     output_path,
@@ -36,6 +37,7 @@ def plan(design: Path, as_json: bool) -> None:
 
     p = load_plan(design)
     click.echo(plan_to_json(p) if as_json else plan_to_text(p), nl=False)
+    exit_if_errors(p)
 
 
 @click.command()

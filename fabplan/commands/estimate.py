@@ -7,7 +7,15 @@ from pathlib import Path
 import click
 
 from ..errors import FabplanError
-from .base import check_output, design_argument, guarded, is_dash, load_plan, write_one_text
+from .base import (
+    check_output,
+    design_argument,
+    exit_if_errors,
+    guarded,
+    is_dash,
+    load_plan,
+    write_one_text,
+)
 
 __all__ = ["COMMANDS", "estimate", "compare"]
 
@@ -35,10 +43,11 @@ def estimate(design: Path, as_json: bool, csv_path: Path | None, force: bool) ->
     text = estimate_json(plan) if as_json else estimate_text(plan)
     if csv_path is None:
         click.echo(text, nl=False)
-        return
-    # the CSV first: the report is not printed when the file cannot be written
-    write_one_text(csv_path, order_csv(plan), force, "--csv")
-    click.echo(text, nl=False, err=is_dash(csv_path))
+    else:
+        # the CSV first: the report is not printed when the file cannot be written
+        write_one_text(csv_path, order_csv(plan), force, "--csv")
+        click.echo(text, nl=False, err=is_dash(csv_path))
+    exit_if_errors(plan)
 
 
 @click.command()

@@ -50,6 +50,34 @@ def test_check_exit_codes(cli, write_design, folded_dipole_toml, example_path):
     assert "gap-wider-than-side" in proc.stdout
 
 
+TOO_BIG = """
+[project]
+name = "a loop too big for the bed"
+[stock]
+catalogue = "awg-10"
+[[element]]
+name = "loop"
+shape = "rect-loop"
+side = "900 mm"
+corner_radius = "20 mm"
+[jig]
+bed = "300x200mm"
+"""
+
+
+def test_every_command_agrees_on_a_plate_too_big_for_the_bed(cli, write_design, tmp_path):
+    # issue 10: check, plan, estimate, build and jig all say jig-too-big and exit 1; the
+    # drawing commands write nothing without --with-errors
+    design = write_design(TOO_BIG)
+    for args in (["check", design], ["plan", design], ["plan", "--json", design],
+                 ["estimate", design], ["build", design, "-o", tmp_path / "b"],
+                 ["jig", design, "-o", tmp_path / "j"]):
+        proc = cli(*args)
+        assert proc.returncode == 1, (args, proc.stderr)
+        assert "jig-too-big" in proc.stdout + proc.stderr, args
+    assert not (tmp_path / "b").exists() and not (tmp_path / "j").exists()
+
+
 @pytest.mark.parametrize("text, needle", [
     ("[stock]\ndiameter = 4\nmaterial = \"cu-c11000-annealed\"\n[[element]]\nshape = \"hairpin\"\n"
      "leg = \"1 in\"\nspacing = \"1 in\"\n", "stock.diameter = 4: a bare number has no unit"),
