@@ -83,6 +83,17 @@ def get_stock_item(key: str, field: str = "stock.catalogue") -> StockItem:
     try:
         return CATALOGUE[key]
     except KeyError:
-        hint = did_you_mean(key, CATALOGUE, 0.5)
-        raise DesignError(f"not in the stock catalogue; {hint}run `fabplan stock` for the list",
-                          field=field, value=key) from None
+        raise DesignError(f"not in the stock catalogue; {_suggestion(key)}run `fabplan stock` "
+                          "for the list", field=field, value=key) from None
+
+
+def _suggestion(key: str) -> str:
+    """The nearest catalogue key in the same family first (the part before the first
+    hyphen: "al", "acr", "awg"; a key the typed one begins, "al-1/2" for
+    "al-1/2x0.058", before any other), then among all keys."""
+    family = key.split("-", 1)[0].lower()
+    same = [k for k in CATALOGUE if k.split("-", 1)[0].lower() == family]
+    starts = sorted(k for k in same if k.lower().startswith(key.lower()))
+    if starts:
+        return f"did you mean {starts[0]!r}? "
+    return did_you_mean(key, same, 0.5) or did_you_mean(key, CATALOGUE, 0.5)

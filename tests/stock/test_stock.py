@@ -3,11 +3,13 @@
 from __future__ import annotations
 
 import math
+import re
 
 import pytest
 
 from fabplan.errors import DesignError
 from fabplan.stock import CATALOGUE, MATERIALS, Round, Strip, Tube, awg_diameter_mm, parse_gauge
+from fabplan.stock.catalogue import get_stock_item
 from fabplan.units import IN
 
 LB_PER_FT_PER_KG_PER_M = 2.20462262 * 0.3048  # kg/m -> lb/ft
@@ -82,3 +84,13 @@ def test_conductivity_iacs():
     # source: IACS definition: 100 % = 1.7241 micro-ohm cm (annealed copper standard)
     assert MATERIALS["cu-c11000-annealed"].conductivity_iacs == pytest.approx(100.2, abs=0.5)
     assert MATERIALS["ccs-40-hard"].conductivity_iacs == pytest.approx(40.0, abs=0.1)
+
+
+@pytest.mark.parametrize(("typed", "meant"), [
+    ("al-1/2", "al-1/2x0.058"),   # begins an aluminium key: not the copper acr-1/2
+    ("acr-1/3", "acr-1/4"),       # the nearest in the same family
+    ("awg10", "awg-10"),          # no family typed: the nearest of all
+])
+def test_a_catalogue_typo_suggests_the_same_family_first(typed, meant):
+    with pytest.raises(DesignError, match=f"did you mean '{re.escape(meant)}'"):
+        get_stock_item(typed)
