@@ -129,8 +129,9 @@ def fed_element(plan: Plan, name: str | None) -> ElementPlan:
         return element
     fed = [e for e in plan.elements if is_fed(e)]
     if not fed:
-        raise DesignError("no element has a feed gap or a gamma or T match: nothing to tune",
-                          field="element")
+        raise DesignError("no element has a feed gap or a gamma or T match, so none has an "
+                          "impedance to sweep or tune (a helix fed at a lead against a ground "
+                          "plane is not modelled)", field="element")
     if len(fed) > 1:
         raise DesignError("several elements have a feed gap: choose one with --element "
                           f"({', '.join(e.name for e in fed)})", field="--element")

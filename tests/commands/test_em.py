@@ -321,3 +321,10 @@ centre_spacing = "1 1/4 in"
     assert plan.element("reflector").electrical is None
     assert plan.element("70 cm").electrical is not None
     assert any(f.code == "em-not-fed" and f.element == "reflector" for f in plan.findings)
+
+
+def test_sweep_of_a_design_with_no_fed_element_says_why(cli, write_design):
+    # issue 15: `sweep` on a helix said "nothing to tune"; it says there is nothing fed
+    text = cli("new", "helix", "-o", "-").stdout + '\n[electrical]\ntarget = "435 MHz"\n'
+    proc = cli("sweep", write_design(text), check_exit=2)
+    assert "impedance to sweep or tune" in proc.stderr and "nothing to tune" not in proc.stderr
