@@ -105,6 +105,10 @@ def materials() -> None:
              f"{m.yield_mpa:g}", f"{m.resistivity_ohm_m * 1e8:.2f}", m.name]
             for m in MATERIALS.values()]
     click.echo(table(["key", "kg/m3", "E GPa", "yield MPa", "uohm cm", "name"], rows, "lrrrrl"))
+    click.echo("\nSources ([M]: a handbook figure recalled, not read from the book; [E]: an "
+               "estimate; [P]: common practice):")
+    for m in MATERIALS.values():
+        click.echo(f"  {m.key}: {m.source}")
 
 
 @click.command()

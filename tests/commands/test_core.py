@@ -123,7 +123,12 @@ def test_new_unknown_shape(cli):
 
 
 def test_materials_and_stock_lists(cli):
-    assert "cu-c11000-annealed" in cli("materials", check_exit=0).stdout
+    from fabplan.stock.materials import MATERIALS
+
+    out = cli("materials", check_exit=0).stdout
+    assert "cu-c11000-annealed" in out
+    for m in MATERIALS.values():  # issue 15: it promised sources and showed none
+        assert f"  {m.key}: {m.source}" in out
     assert "acr-1/4" in cli("stock", check_exit=0).stdout
 
 
