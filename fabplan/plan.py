@@ -227,14 +227,16 @@ def make_plan(design: Design) -> Plan:
                          beam.mounts))
     drilling = (beam.boom.drilling,) if beam.boom is not None and beam.boom.drilling.holes else ()
     return Plan(design, stock_summary(design.stock), elements, tuple(findings), est.order, jig,
-                plan_electrical, drilling + _masts(design, specs), beam.boom)
+                plan_electrical, drilling + _masts(design, specs, shape_errors), beam.boom)
 
 
-def _masts(design: Design, specs: list[ElementSpec]) -> tuple[DrillPattern, ...]:
-    """The drilling pattern of each quadrifilar helix's mast (given a mast diameter)."""
+def _masts(design: Design, specs: list[ElementSpec],
+           shape_errors: Sequence[tuple[Finding, ...]]) -> tuple[DrillPattern, ...]:
+    """The drilling pattern of each quadrifilar helix's mast (given a mast diameter); none
+    for a helix that cannot be made (its error findings say why)."""
     out = []
-    for spec in specs:
-        if isinstance(spec.params, quadrifilar.Params):
+    for spec, errors in zip(specs, shape_errors):
+        if isinstance(spec.params, quadrifilar.Params) and not errors:
             m = quadrifilar.mast_inputs(spec.params,
                                         design.stock_of(spec).profile.outer_diameter_mm)
             if m is not None:

@@ -148,3 +148,21 @@ corner_radius = "15 mm"
     plan2 = plan_of(text.replace('small_diameter = "300 mm"', 'small_diameter = "200 mm"')
                     .replace('small_height = "680 mm"', 'small_height = "456 mm"'))
     assert "qfh-loops-ratio" in {f.code for f in plan2.findings}
+
+
+def test_a_helix_scaled_past_its_corners_and_mast_is_findings_not_a_crash(cli, tmp_path):
+    # found by the fuzz test (1000 cases): the example's design frequency times 10 leaves
+    # the 15 mm corners and the 32 mm mast larger than the loops; `check` crashed in the
+    # corner geometry (math domain error) and then in the mast's drilling. Now: the
+    # shape's error findings, exit 1, no mast drilled
+    from pathlib import Path
+
+    example = Path(__file__).resolve().parents[2] / "examples" / "weather-satellite-qfh.toml"
+    text = example.read_text(encoding="utf-8").replace('frequency = "137.5 MHz"',
+                                                       'frequency = "1375 MHz"')
+    design = tmp_path / "tenfold.toml"
+    design.write_text(text, encoding="utf-8")
+    proc = cli("check", design)
+    assert proc.returncode == 1, proc.stderr
+    for code in ("qfh-corner-radius", "qfh-mast-too-thick", "em-not-run"):
+        assert code in proc.stdout, code

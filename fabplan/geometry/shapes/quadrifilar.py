@@ -196,7 +196,8 @@ def _corner(radius: float, rc: float, slope: float) -> tuple[float, float, float
     theta, beta = math.pi / 2, slope
     for _ in range(200):
         py = rc * (1 - math.cos(theta)) * math.cos(beta)
-        px = math.sqrt(radius * radius - py * py)
+        px = math.sqrt(max(radius * radius - py * py, 0.0))  # a corner too big for the
+        # helix: kept finite here; problems() reports the radius as an error
         theta_new = math.atan2(px, -math.cos(beta) * py) if py > 0 else math.pi / 2
         beta_new = math.asin(min(1.0, math.sin(slope) / math.sin(theta_new)))
         done = abs(theta_new - theta) < 1e-15 and abs(beta_new - beta) < 1e-15
@@ -220,7 +221,8 @@ def loop_shape(name: str, diameter_mm: float, height_mm: float, turns: float,
     for _ in range(200):
         theta, beta, x0 = _corner(radius, rc, slope)
         py = rc * (1 - math.cos(theta)) * math.cos(beta)
-        px = math.sqrt(radius * radius - py * py)
+        px = math.sqrt(max(radius * radius - py * py, 0.0))  # a corner too big for the
+        # helix: kept finite here; problems() reports the radius as an error
         az = math.atan2(py, px)
         drop = rc * (1 - math.cos(theta)) * math.sin(beta)
         sweep = sweep_total - 2 * az
