@@ -30,8 +30,14 @@ def _settings(design: Any) -> Any:
     from ..errors import DesignError
 
     if design.electrical is None:
+        from importlib import resources
+
+        shape = design.elements[0].shape if design.elements else "folded-dipole"
+        template = resources.files("fabplan").joinpath("templates", f"{shape}.toml")
+        if not template.is_file() or "# [electrical]" not in template.read_text("utf-8"):
+            shape = "folded-dipole"  # its template has none (a helix, a hairpin: no feed gap)
         raise DesignError("the design has no [electrical] table: add one with at least "
-                          'target = "..." (see `fabplan new folded-dipole`)',
+                          f'target = "..." (`fabplan new {shape}` shows it, commented)',
                           field="electrical", source=design.source)
     return design.electrical
 

@@ -328,3 +328,15 @@ def test_sweep_of_a_design_with_no_fed_element_says_why(cli, write_design):
     text = cli("new", "helix", "-o", "-").stdout + '\n[electrical]\ntarget = "435 MHz"\n'
     proc = cli("sweep", write_design(text), check_exit=2)
     assert "impedance to sweep or tune" in proc.stderr and "nothing to tune" not in proc.stderr
+
+
+@pytest.mark.parametrize(("shape", "pointed_to"), [("polygon-loop", "polygon-loop"),
+                                                   ("helix", "folded-dipole")])
+def test_no_electrical_table_points_to_a_template_that_shows_one(cli, shape, pointed_to):
+    from importlib import resources
+
+    design = resources.files("fabplan").joinpath("templates", f"{shape}.toml")
+    proc = cli("sweep", str(design), check_exit=2)
+    assert f"`fabplan new {pointed_to}` shows it" in proc.stderr
+    shown = resources.files("fabplan").joinpath("templates", f"{pointed_to}.toml")
+    assert "# [electrical]" in shown.read_text("utf-8")
