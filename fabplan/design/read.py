@@ -301,8 +301,18 @@ def _check_size(top: Section, index: int, spec: ElementSpec, stock: StockSpec) -
     """Bound each piece of an element: its developed length and its bends, before
     any stage samples, meshes or draws it."""
     d = stock.profile.outer_diameter_mm
-    geometry = SHAPES[spec.shape].element_geometry(spec.params, d)
-    where = "element" if isinstance(top.data.get("element"), dict) else f"element[{index + 1}]"
+    raw = top.data.get("element")
+    where = "element" if isinstance(raw, dict) else f"element[{index + 1}]"
+    try:
+        geometry = SHAPES[spec.shape].element_geometry(spec.params, d)
+    except DesignError as exc:  # a shape's rule about one of its keys: as the file names it
+        field = exc.field or ""
+        if field.startswith("element"):
+            raise
+        table = raw if isinstance(raw, dict) else (raw[index] if isinstance(raw, list) else {})
+        value = table.get(field, exc.value) if isinstance(table, dict) and field else exc.value
+        raise DesignError(exc.rule, field=f"{where}.{field}" if field else where,
+                          value=value) from None
     for piece in geometry.pieces:
         length = piece.path.centreline_length()
         if not math.isfinite(length) or length > MAX_PIECE_LENGTH_MM:

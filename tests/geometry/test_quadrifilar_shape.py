@@ -166,3 +166,20 @@ def test_a_helix_scaled_past_its_corners_and_mast_is_findings_not_a_crash(cli, t
     assert proc.returncode == 1, proc.stderr
     for code in ("qfh-corner-radius", "qfh-mast-too-thick", "em-not-run"):
         assert code in proc.stdout, code
+
+
+def test_corners_larger_than_the_arm_are_one_line_naming_the_key(cli, tmp_path):
+    # found by the fuzz test: a 15 m corner radius crashed in the corner geometry (math
+    # domain error); then it named the shape's own field ("corner_radius = 15000.0")
+    from pathlib import Path
+
+    example = Path(__file__).resolve().parents[2] / "examples" / "weather-satellite-qfh.toml"
+    text = example.read_text(encoding="utf-8").replace('corner_radius = "15 mm"',
+                                                       'corner_radius = "15000 mm"')
+    design = tmp_path / "corners.toml"
+    design.write_text(text, encoding="utf-8")
+    proc = cli("check", design)
+    assert proc.returncode == 2
+    assert proc.stderr.strip().splitlines() == [
+        f"fabplan: error: {design}: element[1].corner_radius = '15000 mm': the corners take "
+        "the whole arm: use a smaller corner radius"]

@@ -199,13 +199,15 @@ def _corner(radius: float, rc: float, slope: float) -> tuple[float, float, float
         px = math.sqrt(max(radius * radius - py * py, 0.0))  # a corner too big for the
         # helix: kept finite here; problems() reports the radius as an error
         theta_new = math.atan2(px, -math.cos(beta) * py) if py > 0 else math.pi / 2
-        beta_new = math.asin(min(1.0, math.sin(slope) / math.sin(theta_new)))
+        s_theta = math.sin(theta_new)
+        beta_new = (math.asin(max(-1.0, min(1.0, math.sin(slope) / s_theta))) if s_theta
+                    else math.copysign(math.pi / 2, slope))
         done = abs(theta_new - theta) < 1e-15 and abs(beta_new - beta) < 1e-15
         theta, beta = theta_new, beta_new
         if done:
             break
     py = rc * (1 - math.cos(theta)) * math.cos(beta)
-    px = math.sqrt(radius * radius - py * py)
+    px = math.sqrt(max(radius * radius - py * py, 0.0))
     return theta, beta, px - rc * math.sin(theta)
 
 
