@@ -448,12 +448,13 @@ class _Evaluator:
         device = line_match(s.group)
         if device is None:
             return model
-        if device.capacitance_f is None:
+        as_built = line_match(self.setup.group)  # the device of the design as drawn
+        if device.capacitance_f is None and as_built is not None:
             if self._solved_cap is None:
                 base = model if s is self.setup else self.model(None, 0.0).model
                 f0 = design_frequency(self.setup.settings)
-                self._solved_cap = line_match(self.setup.group).solved_for(  # type: ignore[union-attr]
-                    complex(base.impedance(f0)), f0).capacitance_f or 0.0
+                solved = as_built.solved_for(complex(base.impedance(f0)), f0)
+                self._solved_cap = solved.capacitance_f or 0.0
             if self._solved_cap > 0:
                 device = dataclasses.replace(device, capacitance_f=self._solved_cap, solved=True)
         return Through(model, device)

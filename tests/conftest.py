@@ -202,6 +202,11 @@ def loop_example_plan():
     return make_plan(load_design(LOOP_EXAMPLE))
 
 
+@pytest.fixture
+def qfh_example_path() -> Path:
+    return QFH_EXAMPLE
+
+
 @pytest.fixture(scope="session")
 def qfh_example_plan():
     """The quadrifilar helix example's Plan, made once per session (read only)."""

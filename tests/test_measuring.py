@@ -476,3 +476,21 @@ def test_hairpin_legs_are_corrected_within_their_range(beam_plan, beam_example_p
     assert any("match.length of 'driven' alone cannot" in n for n in r.notes)
     with pytest.raises(DesignError, match="fabplan tune"):
         r.correction("match.length")
+
+
+def test_a_gamma_capacitor_left_open_is_the_one_the_check_solved(beam_example_path):
+    # the design leaves the gamma's capacitor out: the check solves it at the target, the
+    # article is built with that value, and the correction keeps it while the rod or the
+    # element changes; the model's least SWR read through it is the plan's own
+    text = _gamma_beam_text(beam_example_path).replace('capacitance = "5.81 pF"\n', "")
+    d = parse_design(text)
+    plan = make_plan(d)
+    e = fed_element(plan, None)
+    setup = measuring.setup_of(plan, e, d.electrical)
+    assert [a.name for a in measuring.adjustables(plan, e, setup)] == ["length",
+                                                                       "match.length"]
+    goal = measuring.Feature("least-swr", d.electrical.chain)
+    model_hz = e.electrical.sweep.min_swr_hz
+    r = measuring.correct(plan, e, d.electrical, goal, 1.005 * model_hz, 145e6, goal)
+    assert r.model_measured_hz == pytest.approx(model_hz, rel=2e-5)
+    assert [c.dimension for c in r.corrections] == ["length", "match.length"]

@@ -150,34 +150,33 @@ corner_radius = "15 mm"
     assert "qfh-loops-ratio" in {f.code for f in plan2.findings}
 
 
-def test_a_helix_scaled_past_its_corners_and_mast_is_findings_not_a_crash(cli, tmp_path):
+def _example_with(example, write_design, old: str, new: str):
+    """The helix example with one line changed, written as a design file."""
+    text = example.read_text(encoding="utf-8")
+    assert old in text
+    return write_design(text.replace(old, new))
+
+
+def test_a_helix_scaled_past_its_corners_and_mast_is_findings_not_a_crash(
+        cli, write_design, qfh_example_path):
     # found by the fuzz test (1000 cases): the example's design frequency times 10 leaves
     # the 15 mm corners and the 32 mm mast larger than the loops; `check` crashed in the
     # corner geometry (math domain error) and then in the mast's drilling. Now: the
     # shape's error findings, exit 1, no mast drilled
-    from pathlib import Path
-
-    example = Path(__file__).resolve().parents[2] / "examples" / "weather-satellite-qfh.toml"
-    text = example.read_text(encoding="utf-8").replace('frequency = "137.5 MHz"',
-                                                       'frequency = "1375 MHz"')
-    design = tmp_path / "tenfold.toml"
-    design.write_text(text, encoding="utf-8")
+    design = _example_with(qfh_example_path, write_design, 'frequency = "137.5 MHz"',
+                           'frequency = "1375 MHz"')
     proc = cli("check", design)
     assert proc.returncode == 1, proc.stderr
     for code in ("qfh-corner-radius", "qfh-mast-too-thick", "em-not-run"):
         assert code in proc.stdout, code
 
 
-def test_corners_larger_than_the_arm_are_one_line_naming_the_key(cli, tmp_path):
+def test_corners_larger_than_the_arm_are_one_line_naming_the_key(cli, write_design,
+                                                                qfh_example_path):
     # found by the fuzz test: a 15 m corner radius crashed in the corner geometry (math
     # domain error); then it named the shape's own field ("corner_radius = 15000.0")
-    from pathlib import Path
-
-    example = Path(__file__).resolve().parents[2] / "examples" / "weather-satellite-qfh.toml"
-    text = example.read_text(encoding="utf-8").replace('corner_radius = "15 mm"',
-                                                       'corner_radius = "15000 mm"')
-    design = tmp_path / "corners.toml"
-    design.write_text(text, encoding="utf-8")
+    design = _example_with(qfh_example_path, write_design, 'corner_radius = "15 mm"',
+                           'corner_radius = "15000 mm"')
     proc = cli("check", design)
     assert proc.returncode == 2
     assert proc.stderr.strip().splitlines() == [
