@@ -14,7 +14,7 @@ own fonts.
 from __future__ import annotations
 
 import unicodedata
-from functools import lru_cache
+from functools import cache, lru_cache
 
 __all__ = ["printable", "printable_canvas", "REPERTOIRE"]
 
@@ -59,6 +59,7 @@ def _drawn(ch: str) -> bool:
     return True
 
 
+@cache
 def printable_canvas(base: type) -> type:
     """A subclass of the reportlab canvas class `base` whose drawString,
     drawRightString and drawCentredString draw `printable` text (the strings of
