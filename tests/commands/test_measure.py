@@ -261,6 +261,11 @@ def test_the_build_sheet_shows_the_comparison_page(cli, tmp_path):
         assert len(pages) == 1
         page = pages[0]
         assert "target 440.000 MHz" in page.extract_text()
+        # each plot says where its R and X are: measured and predicted at one plane, or
+        # each at its own
+        text = page.extract_text()
+        assert ("R, ohm, at the element's terminals" in text
+                or "R, ohm, measured at the" in text)
         want, got = _target_line_x(page)
         assert got == pytest.approx(want, abs=1.0)  # the target is plotted where it belongs
     # the Plan stays the model's: plan.json is the design's own Plan, measurement or not

@@ -134,8 +134,10 @@ def comparison_section(ctx: Context, m: Measurement, page_break: bool = True) ->
         meas = (None if c.measured_z_ohm is None else
                 [z.real if name == "R" else z.imag for z in c.measured_z_ohm])
         axis = _axis(pred + (meas or []))
-        plots.append(_plot(ctx, c, f"{name} at the element's terminals, ohm", meas, pred,
-                           axis, zero=name == "X"))
+        where = ("at the element's terminals" if c.plane == "element terminals" else
+                 f"measured at the {c.plane}, predicted at the element's feed")
+        plots.append(_plot(ctx, c, f"{name}, ohm, {where}", meas, pred, axis,
+                           zero=name == "X"))
     out.append(KeepTogether(plots))
     rows = [figure_cells(x) for x in c.figures]
     out += ctx.table(["figure", "measured", "predicted", "difference"], rows,
