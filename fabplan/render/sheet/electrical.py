@@ -16,7 +16,7 @@ from ...units import format_frequency
 from ..text import band_text
 from .context import Context
 
-__all__ = ["electrical", "swr_axis", "nice_step", "frequency_axes"]
+__all__ = ["electrical", "swr_axis", "nice_step", "frequency_axes", "frequency_marks"]
 
 BLUE = (0.1, 0.3, 0.8)
 GREY = (0.6, 0.6, 0.6)
@@ -185,9 +185,35 @@ def frequency_axes(lp: Any, f_lo: float, f_hi: float, axis: tuple[float, float, 
     return px, py
 
 
+def frequency_marks(d: Any, lp: Any, px: Callable[[float], float],
+                    py: Callable[[float], float], axis: tuple[float, float, float],
+                    levels: Sequence[float], target_hz: float | None) -> None:
+    """On a sweep's drawing `d` around its plot `lp` (axes from `frequency_axes`): a
+    dotted line at each of `levels` inside the value axis, the target as a red dashed
+    line, and the frequency axis's title."""
+    from reportlab.graphics.shapes import Line, String
+    from reportlab.lib import colors
+
+    lo, top, _ = axis
+    for level in levels:
+        if lo < level < top:
+            d.add(Line(lp.x, py(level), lp.x + lp.width, py(level), strokeWidth=0.4,
+                       strokeColor=colors.Color(*GREY), strokeDashArray=[1, 2]))
+            d.add(String(lp.x + lp.width + 2, py(level) - 2.5, f"{level:g}", fontSize=6,
+                         fillColor=colors.Color(*GREY)))
+    f_lo, f_hi = lp.xValueAxis.valueMin, lp.xValueAxis.valueMax
+    if target_hz is not None and f_lo <= target_hz / 1e6 <= f_hi:
+        x = px(target_hz / 1e6)
+        d.add(Line(x, lp.y, x, lp.y + lp.height, strokeWidth=0.8,
+                   strokeColor=colors.Color(*RED), strokeDashArray=[4, 2]))
+        d.add(String(x + 2, lp.y + lp.height - 8, f"target {format_frequency(target_hz)}",
+                     fontSize=6.5, fillColor=colors.Color(*RED)))
+    d.add(String(d.width / 2, 4, "frequency, MHz", fontSize=7.5, textAnchor="middle"))
+
+
 def _swr_plot(ctx: Context, sw: SweepResult, target_hz: float | None) -> Any:
     from reportlab.graphics.charts.lineplots import LinePlot
-    from reportlab.graphics.shapes import Drawing, Line, String
+    from reportlab.graphics.shapes import Drawing, String
     from reportlab.lib import colors
 
     w, h = ctx.frame_w, 160
@@ -206,23 +232,9 @@ def _swr_plot(ctx: Context, sw: SweepResult, target_hz: float | None) -> Any:
     if len(series) > 1:
         lp.lines[1].strokeColor = colors.Color(*GREY)
         lp.lines[1].strokeDashArray = [3, 2]
-    f_lo, f_hi = min(mhz), max(mhz)
-    px, py = frequency_axes(lp, f_lo, f_hi, (lo, top, step))
+    px, py = frequency_axes(lp, min(mhz), max(mhz), (lo, top, step))
     d.add(lp)
-
-    for level in (1.5, 2.0):
-        if level < top:
-            d.add(Line(lp.x, py(level), lp.x + lp.width, py(level), strokeWidth=0.4,
-                       strokeColor=colors.Color(*GREY), strokeDashArray=[1, 2]))
-            d.add(String(lp.x + lp.width + 2, py(level) - 2.5, f"{level:g}", fontSize=6,
-                         fillColor=colors.Color(*GREY)))
-    if target_hz is not None and f_lo <= target_hz / 1e6 <= f_hi:
-        x = px(target_hz / 1e6)
-        d.add(Line(x, lp.y, x, lp.y + lp.height, strokeWidth=0.8,
-                   strokeColor=colors.Color(*RED), strokeDashArray=[4, 2]))
-        d.add(String(x + 2, lp.y + lp.height - 8, f"target {format_frequency(target_hz)}",
-                     fontSize=6.5, fillColor=colors.Color(*RED)))
-    d.add(String(w / 2, 4, "frequency, MHz", fontSize=7.5, textAnchor="middle"))
+    frequency_marks(d, lp, px, py, (lo, top, step), (1.5, 2.0), target_hz)
     d.add(String(4, h - 10, f"SWR (clipped at {top:g})", fontSize=7.5))
     legend = f"solid: at the feed line, against {sw.system_ohm:g} ohm"
     if len(series) > 1:

@@ -20,7 +20,7 @@ from ...plan import Plan
 from ...units import format_frequency
 from ..measure import change_text, change_words, figure_cells
 from .context import Context, default_paper
-from .electrical import BLUE, GREY, RED, frequency_axes, nice_step, swr_axis
+from .electrical import BLUE, GREY, frequency_axes, frequency_marks, nice_step, swr_axis
 
 __all__ = ["comparison_section", "comparison_pdf", "TITLE", "MAX_PLOTTED"]
 
@@ -71,27 +71,12 @@ def _plot(ctx: Context, c: Comparison, ylabel: str, measured: Sequence[float] | 
     if measured is not None:
         lp.lines[1].strokeColor = colors.Color(*BLUE)
         lp.lines[1].strokeWidth = 1.2
-    f_lo, f_hi = mhz[0], mhz[-1]
-    px, py = frequency_axes(lp, f_lo, f_hi, (lo, top, step))
+    px, py = frequency_axes(lp, mhz[0], mhz[-1], (lo, top, step))
     d.add(lp)
-
-    for level in levels:
-        if lo < level < top:
-            d.add(Line(lp.x, py(level), lp.x + lp.width, py(level), strokeWidth=0.4,
-                       strokeColor=colors.Color(*GREY), strokeDashArray=[1, 2]))
-            d.add(String(lp.x + lp.width + 2, py(level) - 2.5, f"{level:g}", fontSize=6,
-                         fillColor=colors.Color(*GREY)))
     if zero and lo < 0 < top:
         d.add(Line(lp.x, py(0.0), lp.x + lp.width, py(0.0), strokeWidth=0.6,
                    strokeColor=colors.Color(0.3, 0.3, 0.3)))
-    t = c.target_hz
-    if t is not None and f_lo <= t / 1e6 <= f_hi:
-        x = px(t / 1e6)
-        d.add(Line(x, lp.y, x, lp.y + lp.height, strokeWidth=0.8,
-                   strokeColor=colors.Color(*RED), strokeDashArray=[4, 2]))
-        d.add(String(x + 2, lp.y + lp.height - 8, f"target {format_frequency(t)}",
-                     fontSize=6.5, fillColor=colors.Color(*RED)))
-    d.add(String(w / 2, 4, "frequency, MHz", fontSize=7.5, textAnchor="middle"))
+    frequency_marks(d, lp, px, py, (lo, top, step), levels, c.target_hz)
     d.add(String(4, height - 10, ylabel, fontSize=7.5))
     legend = "dashed grey: predicted" + ("; solid blue: measured" if measured is not None
                                          else "; not measured (no phase)")
