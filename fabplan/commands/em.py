@@ -188,10 +188,8 @@ def tune(design: Path, target: str | None, measured: str | None, measured_kind: 
          output: Path | None, force: bool) -> None:
     """Find the element length that puts least SWR (or resonance) on target; for a beam
     with a matching device (or a --goal), the driven element and the match together."""
-    from .. import tuning
     from ..em.stage import plan_electrical
     from ..errors import DesignError
-    from ..render.tuning import tune_text
 
     if measured is not None and measured_kind is None:
         raise DesignError("say what the measured frequency is: --kind resonance (X = 0 at the "
@@ -210,15 +208,31 @@ def tune(design: Path, target: str | None, measured: str | None, measured_kind: 
         raise DesignError('give --target "FREQ" or set target in [electrical]', field="--target")
     measured_hz = _frequency(measured, "--measured", None)
     plan = _core_plan(d)
+    lines = _tuned_lines(design, d, plan, settings, target_hz, measured_hz, measured_kind,
+                         tune_for, element_name, goal, within, output, force)
+    if output is None and measured_hz is None:  # a correction says how to write it itself
+        lines += ["", "use -o NEW.toml to write the tuned design"]
+    pe = plan_electrical(settings)
+    lines += [""] + [f"CAUTION: {c}" for c in pe.cautions]
+    click.echo("\n".join(lines), err=is_dash(output))
+
+
+def _tuned_lines(design: Path, d: Any, plan: Any, settings: Any, target_hz: float,
+                 measured_hz: float | None, measured_kind: str | None, tune_for: str | None,
+                 element_name: str | None, goal: str | None, within: float,
+                 output: Path | None, force: bool) -> list[str]:
+    """What `tune` found (and wrote with -o), by the kind of antenna and whether a
+    measured frequency was given."""
+    from .. import tuning
+    from ..render.tuning import tune_text
+
     if measured_hz is None and (goal is not None or any(
             e.spec.match is not None for e in plan.elements if e.spec.part_of is None)):
-        _tune_beam(design, d, plan, settings, target_hz, element_name, goal, within, output,
-                   force)
-        return
+        return _tune_beam(design, d, plan, settings, target_hz, element_name, goal, within,
+                          output, force)
     element = tuning.fed_element(plan, element_name)
     if measured_hz is None and tuning.tuned_loop(plan, element) is not None:
-        _tune_coupling(design, d, plan, element, settings, target_hz, output, force)
-        return
+        return _tune_coupling(design, d, plan, element, settings, target_hz, output, force)
     if measured_hz is not None and measured_kind is not None:
         from ..measuring import correct_single
         from ..render.measure import correction_lines
@@ -237,21 +251,16 @@ def tune(design: Path, target: str | None, measured: str | None, measured_kind: 
             if settings.target_hz is not None and settings.target_hz != target_hz:
                 lines.append(f"note: its [electrical] target is still "
                              f"{settings.target_hz / 1e6:g} MHz; only the length was changed")
-        else:
-            lines += ["", "use -o NEW.toml to write the tuned design"]
-    pe = plan_electrical(settings)
-    lines += [""] + [f"CAUTION: {c}" for c in pe.cautions]
-    click.echo("\n".join(lines), err=is_dash(output))
+    return lines
 
 
 def _tune_beam(design: Path, d: Any, plan: Any, settings: Any, target_hz: float,
                element_name: str | None, goal: str | None, within: float, output: Path | None,
-               force: bool) -> None:
+               force: bool) -> list[str]:
     """`tune` for a beam: the driven element with its match, and the parasitics for a goal."""
     from .. import tuning
     from ..design.read import parse_design
     from ..design.rewrite import rewrite_element
-    from ..em.stage import plan_electrical
     from ..render.tuning import beam_tune_text
 
     element = tuning.driven_element(plan, element_name)
@@ -269,11 +278,7 @@ def _tune_beam(design: Path, d: Any, plan: Any, settings: Any, target_hz: float,
             shown += [f"{name}: {k} = \"{v}\"" for k, v in changes.items()]
         write_one_text(output, text, force)
         lines += ["", f"tuned design: {'; '.join(shown)}"]
-    else:
-        lines += ["", "use -o NEW.toml to write the tuned design"]
-    pe = plan_electrical(settings)
-    lines += [""] + [f"CAUTION: {c}" for c in pe.cautions]
-    click.echo("\n".join(lines), err=is_dash(output))
+    return lines
 
 
 def _write_tuned(design: Path, d: Any, element: Any, new_params: Any, output: Path,
@@ -291,20 +296,16 @@ def _write_tuned(design: Path, d: Any, element: Any, new_params: Any, output: Pa
 
 
 def _tune_coupling(design: Path, d: Any, plan: Any, element: Any, settings: Any,
-                   target_hz: float, output: Path | None, force: bool) -> None:
+                   target_hz: float, output: Path | None, force: bool) -> list[str]:
     """`tune` for a loop its capacitor tunes: the coupling loop's size for the match."""
     from .. import tuning
-    from ..em.stage import plan_electrical
     from ..render.tuning import coupling_text
 
     r = tuning.tune_coupling(plan, element, settings, target_hz)
     lines = coupling_text(r, d, settings)
     if output is not None:
         lines += ["", _write_tuned(design, d, element, r.new_params, output, force)]
-    else:
-        lines += ["", "use -o NEW.toml to write the tuned design"]
-    lines += [""] + [f"CAUTION: {c}" for c in plan_electrical(settings).cautions]
-    click.echo("\n".join(lines), err=is_dash(output))
+    return lines
 
 
 COMMANDS = [sweep, tune]
