@@ -27,7 +27,7 @@ from ..drilling.wrap import around_mm, exit_angle_deg, face_edges_mm
 from ..errors import DesignError
 from ..plan import Plan
 from ..units import format_inches, format_mm
-from .fullscale.drawing import ACTUAL_SIZE, calibration_bars, draw_items
+from .fullscale.drawing import ACTUAL_SIZE, calibration_bars, draw_items, draw_on_roll
 from .fullscale.fonts import FONT, FONT_BOLD, register_fonts, text_width_mm
 from .fullscale.layout import Item, Layout, item_box, shift
 from .fullscale.papers import PAPERS, PT_PER_MM, paper_size
@@ -218,15 +218,7 @@ def _roll(c: Any, name: str, layout: Layout, paper: str, page: int, total: int) 
                           "roll; use a4/letter tiles", field="--paper", value=paper)
     page_h = h + 2 * MARGIN_MM + FOOTER_MM
     c.setPageSize((width * k, page_h * k))
-    base_y = (MARGIN_MM + FOOTER_MM) * k
-    if rotate:
-        c.saveState()
-        c.translate(MARGIN_MM * k, base_y + h * k)
-        c.rotate(-90)
-        draw_items(c, layout.items, 0, 0)
-        c.restoreState()
-    else:
-        draw_items(c, layout.items, MARGIN_MM * k, base_y)
+    draw_on_roll(c, layout.items, h, rotate)
     _footer(c, width * k, f"{name}: {paper}, one page   page {page} of {total}")
     c.showPage()
 

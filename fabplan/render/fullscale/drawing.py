@@ -21,11 +21,27 @@ from .layout import Item, Layout, build_layout, wrap_text
 from .papers import PAPERS, PT_PER_MM
 from .tiling import FOOTER_MM, MARGIN_MM, OVERLAP_MM, row_name
 
-__all__ = ["template_pdf", "draw_items", "calibration_bars", "ACTUAL_SIZE"]
+__all__ = ["template_pdf", "draw_items", "draw_on_roll", "calibration_bars", "ACTUAL_SIZE"]
 
 
 def _font(bold: bool) -> str:
     return FONT_BOLD if bold else FONT
+
+
+def draw_on_roll(c: Any, items: list[Item], h_mm: float, rotate: bool) -> None:
+    """Draw a layout on a one-page roll at 1:1 above the footer: as it is, or turned a
+    quarter (layout x running down the page, layout y left to right) when `rotate`;
+    `h_mm` is its height on the page."""
+    k = PT_PER_MM
+    base_y = (MARGIN_MM + FOOTER_MM) * k
+    if rotate:
+        c.saveState()
+        c.translate(MARGIN_MM * k, base_y + h_mm * k)
+        c.rotate(-90)
+        draw_items(c, items, 0, 0)
+        c.restoreState()
+    else:
+        draw_items(c, items, MARGIN_MM * k, base_y)
 
 
 def draw_items(c: Any, items: list[Item], dx_pt: float, dy_pt: float,
@@ -219,16 +235,7 @@ def _roll(c: Any, plan: Plan, layout: Layout, paper: str) -> None:
     c.setFont(FONT_BOLD, 12)
     c.drawString(MARGIN_MM * k, (page_h - MARGIN_MM) * k - 12,
                  f"{plan.design.project}: full-scale template ({paper}, one page)")
-    base_y = (MARGIN_MM + FOOTER_MM) * k
-    if rotate:
-        c.saveState()
-        # layout x runs down the page, layout y runs left to right
-        c.translate(MARGIN_MM * k, base_y + h * k)
-        c.rotate(-90)
-        draw_items(c, layout.items, 0, 0)
-        c.restoreState()
-    else:
-        draw_items(c, layout.items, MARGIN_MM * k, base_y)
+    draw_on_roll(c, layout.items, h, rotate)
     _footer(c, width * k, f"{paper} page 1 of 1")
     c.showPage()
 
