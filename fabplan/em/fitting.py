@@ -57,7 +57,7 @@ from ..logs import log
 
 __all__ = ["aaa", "Barycentric", "fit_sweep", "FittedSweep", "Resonance", "SwrMinimum",
            "chebyshev_points", "DEFAULT_RTOL", "DEFAULT_INITIAL", "DEFAULT_MAX_SOLVES",
-           "AAA_RTOL"]
+           "AAA_RTOL", "TOUCH_TOL", "touch_candidates"]
 
 
 FloatArray = NDArray[np.float64]
@@ -391,12 +391,8 @@ class FittedSweep:
         solved for X = 0 where its coupling is critical touches the axis there; whether
         round-off puts that sample a hair above or below zero must not decide whether
         the resonance is reported)."""
-        ax = np.abs(x)
-        s = np.sign(x)
-        inner = np.nonzero((ax[1:-1] <= ax[:-2]) & (ax[1:-1] <= ax[2:])
-                           & (s[:-2] == s[1:-1]) & (s[1:-1] == s[2:]) & (s[1:-1] != 0))[0] + 1
         out: list[Resonance] = []
-        for i in inner:
+        for i in touch_candidates(x):
             lo, hi = float(f[i - 1]), float(f[i + 1])
 
             def size(q: float) -> float:
@@ -467,6 +463,16 @@ class FittedSweep:
             s = (1 + gm[0]) / (1 - gm[0]) if gm[0] < 1 else math.inf
             out.append(SwrMinimum(fmin, float(s), complex(zm[0]), i in (0, n - 1)))
         return out
+
+
+def touch_candidates(x: FloatArray) -> NDArray[np.intp]:
+    """The samples (not at the ends) where |x| has a local minimum and x keeps one
+    sign, not zero, across its neighbours: where a reactance may touch zero without
+    crossing it (to be refined between the neighbours and judged by TOUCH_TOL)."""
+    ax = np.abs(x)
+    s = np.sign(x)
+    return np.nonzero((ax[1:-1] <= ax[:-2]) & (ax[1:-1] <= ax[2:])
+                      & (s[:-2] == s[1:-1]) & (s[1:-1] == s[2:]) & (s[1:-1] != 0))[0] + 1
 
 
 def _component(value: ArrayLike, k: int) -> complex:

@@ -19,7 +19,7 @@ import numpy as np
 from ..feed import MatchChain
 from ..measure.analysis import Band, swr_bands
 from ..numeric import brentq, minimize_bounded
-from .fitting import TOUCH_TOL
+from .fitting import TOUCH_TOL, touch_candidates
 from .records import UNCERTAINTY_FRAC, SweepResult
 
 __all__ = ["Model", "Progress", "least_swr", "resonance", "bandwidths", "analyse", "SWR_LEVELS",
@@ -105,8 +105,7 @@ def _touch(model: Model, freqs: np.ndarray, z: np.ndarray, near_hz: float,
     sweep's neighbours. Whether round-off leaves that sample a hair above or below
     zero must not decide whether the resonance is reported."""
     ax = np.abs(z.imag)
-    inner = [i for i in range(1, len(ax) - 1) if ax[i] <= ax[i - 1] and ax[i] <= ax[i + 1]
-             and ax[i] <= _TOUCH_LOOK * abs(z[i])]
+    inner = [int(i) for i in touch_candidates(z.imag) if ax[i] <= _TOUCH_LOOK * abs(z[i])]
     for i in sorted(inner, key=lambda k: abs(freqs[k] - near_hz)):
         lo, hi = float(freqs[i - 1]), float(freqs[i + 1])
         f_best, x_best = minimize_bounded(lambda f: abs(model.impedance(f).imag), lo, hi,
