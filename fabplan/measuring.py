@@ -63,7 +63,7 @@ import numpy as np
 import numpy.typing as npt
 
 from .design.electrical import ElectricalSettings
-from .em.build import ElectricalInput, groups
+from .em.build import ElectricalInput
 from .em.devices import Through, line_match
 from .em.records import UNCERTAINTY_FRAC
 from .em.stage import ModelFactory, design_frequency, structure_model_of
@@ -80,7 +80,8 @@ from .measure.history import Feature as HistoryFeature
 from .measure.sweep import MeasuredSweep
 from .measure.touchstone import read_touchstone
 from .numeric import brentq
-from .plan import ElementPlan, Plan, core_element, electrical_input
+from .plan import ElementPlan, Plan, core_element
+from .tuning import group_of
 
 __all__ = [
     "FEATURE_KINDS", "SINGLE_KINDS", "BRACKET_FRAC", "TOLERANCE_FRAC", "FeatureKind",
@@ -204,11 +205,7 @@ class Adjustable:
 def setup_of(plan: Plan, element: ElementPlan, settings: ElectricalSettings) -> Setup:
     """The model set-up of `element`: its group (the placed elements together, or
     itself alone) with `settings`."""
-    inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
-              for e in plan.elements]
-    index = plan.elements.index(element)
-    group = next(g for g in groups(inputs) if index in g)
-    return Setup(tuple(inputs[i] for i in group), settings)
+    return Setup(tuple(group_of(plan, element)), settings)
 
 
 def governing_dimension(plan: Plan, element: ElementPlan) -> Adjustable:

@@ -43,7 +43,7 @@ from .plan import ElementPlan, Plan, core_element, electrical_input
 __all__ = ["TuneResult", "MarkChange", "MeasuredResult", "feature_hz", "tune",
            "from_measurement", "proportional_length", "tuned_values", "fed_element", "is_fed",
            "Goal", "parse_goal", "Change", "BeamFigures", "BeamTuneResult", "tune_beam",
-           "driven_element", "beam_values", "CouplingTuneResult", "tuned_loop",
+           "driven_element", "beam_values", "CouplingTuneResult", "tuned_loop", "group_of",
            "tune_coupling"]
 
 TOLERANCE_FRAC = 2e-5  # tuning stops when the model's frequency is this close to the target
@@ -103,6 +103,15 @@ class MeasuredResult:
     cut_change_proportional_mm: float
     trust: str  # "model" or "proportional"
     advice: str
+
+
+def group_of(plan: Plan, element: ElementPlan) -> list[ElectricalInput]:
+    """The electrical inputs of the elements modelled with `element`: the placed
+    elements together, or the element alone."""
+    inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
+              for e in plan.elements]
+    index = plan.elements.index(element)
+    return [inputs[i] for i in next(g for g in groups(inputs) if index in g)]
 
 
 def is_fed(e: ElementPlan) -> bool:
@@ -177,11 +186,7 @@ class _Evaluator:
         self.params = element.spec.params
         self.key, self.value = self.shape.governing(self.params)
         self.models = 0
-        inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
-                  for e in plan.elements]
-        index = plan.elements.index(element)
-        group = next(g for g in groups(inputs) if index in g)
-        self.group: list[ElectricalInput] = [inputs[i] for i in group]
+        self.group: list[ElectricalInput] = group_of(plan, element)
         tuned = [e.name for e in self.group
                  if e.spec.capacitor is not None and e.spec.capacitor.capacitance_f is None]
         if tuned:
@@ -189,7 +194,7 @@ class _Evaluator:
                               "the capacitor tunes it, no length does (for the match, "
                               "`fabplan tune` sizes the coupling loop)", field="--element",
                               value=element.name)
-        self.input: ElectricalInput = inputs[index]
+        self.input: ElectricalInput = next(e for e in self.group if e.name == element.name)
 
     def __call__(self, value_mm: float, expect_hz: float, span_frac: float = BRACKET_FRAC,
                  points: int = 9) -> float:
@@ -468,14 +473,10 @@ class _Beam:
 
     def __init__(self, plan: Plan, element: ElementPlan, settings: ElectricalSettings,
                  factory: ModelFactory) -> None:
-        inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
-                  for e in plan.elements]
         from .plan import boom_input
 
         boom = boom_input(plan.design, [e.spec for e in plan.elements])
-        index = plan.elements.index(element)
-        group = next(g for g in groups(inputs) if index in g)
-        self.group: list[ElectricalInput] = [inputs[i] for i in group]
+        self.group: list[ElectricalInput] = group_of(plan, element)
         if boom is not None and element.spec.placement is not None:
             self.group.append(boom)
         self.settings, self.factory = settings, factory
@@ -874,14 +875,10 @@ class CouplingTuneResult:
 def tuned_loop(plan: Plan, element: ElementPlan) -> str | None:
     """The element modelled with `element` whose capacitor is solved for resonance (a
     small loop tuned by its capacitor), if any."""
-    inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
-              for e in plan.elements]
-    index = plan.elements.index(element)
-    group = next(g for g in groups(inputs) if index in g)
-    for i in group:
-        cap = inputs[i].spec.capacitor
+    for e in group_of(plan, element):
+        cap = e.spec.capacitor
         if cap is not None and cap.capacitance_f is None:
-            return inputs[i].name
+            return e.name
     return None
 
 
@@ -903,10 +900,7 @@ def tune_coupling(plan: Plan, element: ElementPlan, settings: ElectricalSettings
     shape = SHAPES[element.spec.shape]
     key, v0 = shape.governing(element.spec.params)
     diameter = plan.design.stock_of(element.spec).profile.outer_diameter_mm
-    inputs = [electrical_input(plan.design, e.spec, e.geometry, e.pieces)
-              for e in plan.elements]
-    index = plan.elements.index(element)
-    group = [inputs[i] for i in next(g for g in groups(inputs) if index in g)]
+    group = group_of(plan, element)
     f_max = max(settings.sweep_to_hz, target_hz)
     f = np.array([target_hz])
     models = [0]
